@@ -13,8 +13,13 @@ const (
 	// ModelR1 is reference model R1 of chipband's design notes §6:
 	// constant acceleration per segment, trapezoid or triangle profiles.
 	ModelR1 Model = iota
-	// ModelJerk keeps R1's caps and junction speeds but limits jerk inside
-	// every segment (S-curve acceleration phases). It needs Machine.Jerk.
+	// ModelJerk keeps R1's caps and junction rule but limits jerk inside
+	// every segment: each speed change is an S-curve (jerk up, constant
+	// acceleration, jerk down), after Erkorkmaz and Altintas (2001), and
+	// the passes use the speed such S-curves reach within a segment. The
+	// acceleration returns to zero at every segment boundary, so on paths
+	// of many short segments the model is pessimistic. It needs
+	// Machine.Jerk.
 	ModelJerk
 )
 
