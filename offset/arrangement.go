@@ -1,0 +1,658 @@
+package offset
+
+import (
+	"fmt"
+	"math"
+	"slices"
+)
+
+// This file turns a system of closed directed chains on the grid (the raw
+// offset curves) into the boundary of the set of points whose winding
+// number is at least 1 (Chen & McMains, DETC2005-85513):
+//
+//  1. a uniform bucket grid finds every proper crossing between raw
+//     segments in about O(n) for well-spread input;
+//  2. snap rounding: every segment endpoint and every crossing, rounded to
+//     the grid, is a hot pixel (the closed unit square around a grid point);
+//     each segment is rerouted through the centres of all hot pixels it
+//     meets, in order along it. The rerouted segments meet only at shared
+//     vertices, so the result is a planar graph on exact integer points;
+//  3. coincident pieces are merged with their net multiplicity; pieces of
+//     net multiplicity 0 are dropped (they change no winding number);
+//  4. faces are traced, each connected component's outer face gets the
+//     winding number of the other components around it (an exact ray
+//     count), and winding numbers are propagated across edges;
+//  5. edges with winding ≥ 1 on exactly one side are kept, oriented with
+//     that side on the left, and linked into rings, which are then split at
+//     repeated vertices so that every ring is simple.
+
+// grid is a uniform bucket grid over a rectangle of the integer plane.
+type grid struct {
+	ox, oy float64 // origin (grid units)
+	cs     float64 // cell size (grid units)
+	nx, ny int
+}
+
+func (g *grid) col(x float64) int {
+	c := int(math.Floor(x / g.cs))
+	return min(max(c, 0), g.nx-1)
+}
+
+func (g *grid) row(y float64) int {
+	r := int(math.Floor(y / g.cs))
+	return min(max(r, 0), g.ny-1)
+}
+
+func (g *grid) cellOf(p ipt) int {
+	return g.row(float64(p.y)-g.oy)*g.nx + g.col(float64(p.x)-g.ox)
+}
+
+// cells appends to buf every cell that comes within a margin of 2 grid units
+// of segment ab.
+func (g *grid) cells(a, b ipt, buf []int32) []int32 {
+	const m = 2.0
+	ax, ay := float64(a.x)-g.ox, float64(a.y)-g.oy
+	bx, by := float64(b.x)-g.ox, float64(b.y)-g.oy
+	if math.Abs(bx-ax) >= math.Abs(by-ay) {
+		if ax > bx {
+			ax, ay, bx, by = bx, by, ax, ay
+		}
+		k := (by - ay) / (bx - ax)
+		c0, c1 := g.col(ax-m), g.col(bx+m)
+		for c := c0; c <= c1; c++ {
+			xa := min(max(float64(c)*g.cs, ax), bx)
+			xb := min(max(float64(c+1)*g.cs, ax), bx)
+			ya, yb := ay+(xa-ax)*k, ay+(xb-ax)*k
+			r0, r1 := g.row(min(ya, yb)-m), g.row(max(ya, yb)+m)
+			for r := r0; r <= r1; r++ {
+				buf = append(buf, int32(r*g.nx+c))
+			}
+		}
+		return buf
+	}
+	if ay > by {
+		ax, ay, bx, by = bx, by, ax, ay
+	}
+	k := (bx - ax) / (by - ay)
+	r0, r1 := g.row(ay-m), g.row(by+m)
+	for r := r0; r <= r1; r++ {
+		ya := min(max(float64(r)*g.cs, ay), by)
+		yb := min(max(float64(r+1)*g.cs, ay), by)
+		xa, xb := ax+(ya-ay)*k, ax+(yb-ay)*k
+		c0, c1 := g.col(min(xa, xb)-m), g.col(max(xa, xb)+m)
+		for c := c0; c <= c1; c++ {
+			buf = append(buf, int32(r*g.nx+c))
+		}
+	}
+	return buf
+}
+
+// arrangement holds the working data of one winding-number extraction.
+type arrangement struct {
+	budget int
+
+	pts        []ipt   // raw vertices
+	sa, sb     []int32 // raw segments sa[i] → sb[i]
+	g          grid
+	cellStart  []int32 // CSR: raw segments per cell
+	cellSegs   []int32
+	hot        []ipt   // hot pixel centres, sorted, unique
+	rawHot     []int32 // hot pixel of each raw vertex
+	hotStart   []int32 // CSR: hot pixels per cell
+	hotIDs     []int32
+	routeStart []int32 // per raw segment, its route through hot pixels
+	route      []int32
+
+	// planar graph
+	eu, ev   []int32 // edge endpoints (hot pixel ids), eu < ev
+	ec       []int32 // net multiplicity in direction eu → ev
+	adjStart []int32 // CSR: outgoing half-edges per vertex, CCW order
+	adj      []int32
+	pos      []int32 // index of each half-edge in adj
+	nxt      []int32 // next half-edge along its face
+	face     []int32 // face on the left of each half-edge
+}
+
+func (a *arrangement) org(h int32) int32 {
+	if h&1 == 0 {
+		return a.eu[h>>1]
+	}
+	return a.ev[h>>1]
+}
+
+func (a *arrangement) dst(h int32) int32 { return a.org(h ^ 1) }
+
+// windingBoundary returns the boundary of {winding ≥ 1} of the closed chains
+// as simple rings, each with the set on its left (outer rings
+// counter-clockwise, holes clockwise).
+func windingBoundary(chains [][]ipt, budget int) ([][]ipt, error) {
+	a := &arrangement{budget: budget}
+	for _, c := range chains {
+		if len(c) < 2 {
+			continue
+		}
+		base := int32(len(a.pts))
+		a.pts = append(a.pts, c...)
+		for i := range c {
+			j := (i + 1) % len(c)
+			if c[i] == c[j] {
+				continue
+			}
+			a.sa = append(a.sa, base+int32(i))
+			a.sb = append(a.sb, base+int32(j))
+		}
+	}
+	if len(a.sa) == 0 {
+		return nil, nil
+	}
+	a.buildGrid()
+	if err := a.snapRound(); err != nil {
+		return nil, err
+	}
+	a.buildGraph()
+	if len(a.eu) == 0 {
+		return nil, nil
+	}
+	a.traceFaces()
+	keep := a.windings()
+	return a.link(keep), nil
+}
+
+func (a *arrangement) buildGrid() {
+	minX, minY := int64(math.MaxInt64), int64(math.MaxInt64)
+	maxX, maxY := int64(math.MinInt64), int64(math.MinInt64)
+	for _, p := range a.pts {
+		minX, maxX = min(minX, p.x), max(maxX, p.x)
+		minY, maxY = min(minY, p.y), max(maxY, p.y)
+	}
+	n := float64(len(a.sa))
+	var total float64
+	for i := range a.sa {
+		p, q := a.pts[a.sa[i]], a.pts[a.sb[i]]
+		total += math.Hypot(float64(q.x-p.x), float64(q.y-p.y))
+	}
+	w, h := float64(maxX-minX)+1, float64(maxY-minY)+1
+	cs := max(total/n, math.Sqrt(w*h/n), 16)
+	g := grid{ox: float64(minX), oy: float64(minY), cs: cs}
+	g.nx = int(w/cs) + 1
+	g.ny = int(h/cs) + 1
+	a.g = g
+
+	ncell := g.nx * g.ny
+	count := make([]int32, ncell+1)
+	var buf []int32
+	flat := make([]int32, 0, 3*len(a.sa))
+	fstart := make([]int32, len(a.sa)+1)
+	for i := range a.sa {
+		fstart[i] = int32(len(flat))
+		buf = g.cells(a.pts[a.sa[i]], a.pts[a.sb[i]], buf[:0])
+		flat = append(flat, buf...)
+		for _, c := range buf {
+			count[c+1]++
+		}
+	}
+	fstart[len(a.sa)] = int32(len(flat))
+	for c := 0; c < ncell; c++ {
+		count[c+1] += count[c]
+	}
+	a.cellStart = slices.Clone(count)
+	a.cellSegs = make([]int32, len(flat))
+	for i := range a.sa {
+		for _, c := range flat[fstart[i]:fstart[i+1]] {
+			a.cellSegs[count[c]] = int32(i)
+			count[c]++
+		}
+	}
+}
+
+type hotItem struct {
+	p   ipt
+	src int32
+}
+
+// snapRound finds the hot pixels and routes every raw segment through them.
+func (a *arrangement) snapRound() error {
+	ns := len(a.sa)
+	type box struct{ x0, y0, x1, y1 int64 }
+	boxes := make([]box, ns)
+	for i := range a.sa {
+		p, q := a.pts[a.sa[i]], a.pts[a.sb[i]]
+		boxes[i] = box{min(p.x, q.x), min(p.y, q.y), max(p.x, q.x), max(p.y, q.y)}
+	}
+	items := make([]hotItem, 0, len(a.pts)+len(a.pts)/4)
+	for i, p := range a.pts {
+		items = append(items, hotItem{p, int32(i)})
+	}
+	ncell := a.g.nx * a.g.ny
+	for c := 0; c < ncell; c++ {
+		list := a.cellSegs[a.cellStart[c]:a.cellStart[c+1]]
+		for i, s := range list {
+			bs := boxes[s]
+			p1, p2 := a.pts[a.sa[s]], a.pts[a.sb[s]]
+			for _, t := range list[i+1:] {
+				bt := boxes[t]
+				if bt.x0 > bs.x1 || bt.x1 < bs.x0 || bt.y0 > bs.y1 || bt.y1 < bs.y0 {
+					continue
+				}
+				q1, q2 := a.pts[a.sa[t]], a.pts[a.sb[t]]
+				if !properCross(p1, p2, q1, q2) {
+					continue
+				}
+				var x, y float64
+				if s < t {
+					x, y = crossPoint(p1, p2, q1, q2)
+				} else {
+					x, y = crossPoint(q1, q2, p1, p2)
+				}
+				if a.g.row(y-a.g.oy)*a.g.nx+a.g.col(x-a.g.ox) != c {
+					continue // reported in the cell that holds the crossing
+				}
+				hp := ipt{int64(math.Round(x)), int64(math.Round(y))}
+				if segHitsPixel(p1, p2, hp) && segHitsPixel(q1, q2, hp) {
+					items = append(items, hotItem{hp, -1})
+				} else {
+					// Rounding of the crossing was not exact enough to be
+					// sure; the true crossing lies in one of these pixels.
+					fx, fy := int64(math.Floor(x)), int64(math.Floor(y))
+					items = append(items, hotItem{ipt{fx, fy}, -1}, hotItem{ipt{fx + 1, fy}, -1},
+						hotItem{ipt{fx, fy + 1}, -1}, hotItem{ipt{fx + 1, fy + 1}, -1})
+				}
+				if len(items) > a.budget {
+					return fmt.Errorf("%w: more than %d vertices and crossings", ErrTooComplex, a.budget)
+				}
+			}
+		}
+	}
+	slices.SortFunc(items, func(p, q hotItem) int { return cmpIpt(p.p, q.p) })
+	a.rawHot = make([]int32, len(a.pts))
+	a.hot = a.hot[:0]
+	for i, it := range items {
+		if i == 0 || it.p != items[i-1].p {
+			a.hot = append(a.hot, it.p)
+		}
+		if it.src >= 0 {
+			a.rawHot[it.src] = int32(len(a.hot) - 1)
+		}
+	}
+	// Hot pixels per cell.
+	count := make([]int32, ncell+1)
+	hcell := make([]int32, len(a.hot))
+	for i, p := range a.hot {
+		c := int32(a.g.cellOf(p))
+		hcell[i] = c
+		count[c+1]++
+	}
+	for c := 0; c < ncell; c++ {
+		count[c+1] += count[c]
+	}
+	a.hotStart = slices.Clone(count)
+	a.hotIDs = make([]int32, len(a.hot))
+	for i, c := range hcell {
+		a.hotIDs[count[c]] = int32(i)
+		count[c]++
+	}
+	// Route every segment through the hot pixels it meets.
+	type cand struct {
+		t  i128
+		id int32
+	}
+	var cands []cand
+	var buf []int32
+	a.routeStart = make([]int32, ns+1)
+	a.route = make([]int32, 0, 2*ns+ns/2)
+	for s := 0; s < ns; s++ {
+		a.routeStart[s] = int32(len(a.route))
+		p, q := a.pts[a.sa[s]], a.pts[a.sb[s]]
+		ip, iq := a.rawHot[a.sa[s]], a.rawHot[a.sb[s]]
+		dx, dy := q.x-p.x, q.y-p.y
+		cands = cands[:0]
+		buf = a.g.cells(p, q, buf[:0])
+		for _, c := range buf {
+			for _, id := range a.hotIDs[a.hotStart[c]:a.hotStart[c+1]] {
+				if id == ip || id == iq {
+					continue
+				}
+				h := a.hot[id]
+				if segHitsPixel(p, q, h) {
+					cands = append(cands, cand{dot(h.x-p.x, h.y-p.y, dx, dy), id})
+				}
+			}
+		}
+		a.route = append(a.route, ip)
+		if len(cands) > 1 {
+			slices.SortFunc(cands, func(u, v cand) int {
+				if c := u.t.cmp(v.t); c != 0 {
+					return c
+				}
+				return cmpIpt(a.hot[u.id], a.hot[v.id])
+			})
+		}
+		for _, c := range cands {
+			if a.route[len(a.route)-1] != c.id {
+				a.route = append(a.route, c.id)
+			}
+		}
+		if a.route[len(a.route)-1] != iq {
+			a.route = append(a.route, iq)
+		}
+		if len(a.route) > 2*a.budget {
+			return fmt.Errorf("%w: more than %d edges after noding", ErrTooComplex, a.budget)
+		}
+	}
+	a.routeStart[ns] = int32(len(a.route))
+	return nil
+}
+
+// buildGraph merges the rerouted pieces into undirected edges with net
+// multiplicity and sorts the half-edges around every vertex.
+func (a *arrangement) buildGraph() {
+	ns := len(a.sa)
+	keys := make([]uint64, 0, len(a.route))
+	for s := 0; s < ns; s++ {
+		r := a.route[a.routeStart[s]:a.routeStart[s+1]]
+		for i := 0; i+1 < len(r); i++ {
+			u, v := r[i], r[i+1]
+			if u == v {
+				continue
+			}
+			if u < v {
+				keys = append(keys, (uint64(u)<<31|uint64(v))<<1)
+			} else {
+				keys = append(keys, (uint64(v)<<31|uint64(u))<<1|1)
+			}
+		}
+	}
+	slices.Sort(keys)
+	for i := 0; i < len(keys); {
+		k := keys[i] >> 1
+		c := int32(0)
+		for ; i < len(keys) && keys[i]>>1 == k; i++ {
+			if keys[i]&1 == 0 {
+				c++
+			} else {
+				c--
+			}
+		}
+		if c != 0 {
+			a.eu = append(a.eu, int32(k>>31))
+			a.ev = append(a.ev, int32(k&(1<<31-1)))
+			a.ec = append(a.ec, c)
+		}
+	}
+	nv := len(a.hot)
+	ne := len(a.eu)
+	a.adjStart = make([]int32, nv+1)
+	for e := 0; e < ne; e++ {
+		a.adjStart[a.eu[e]+1]++
+		a.adjStart[a.ev[e]+1]++
+	}
+	for v := 0; v < nv; v++ {
+		a.adjStart[v+1] += a.adjStart[v]
+	}
+	fill := slices.Clone(a.adjStart[:nv])
+	a.adj = make([]int32, 2*ne)
+	for e := 0; e < ne; e++ {
+		a.adj[fill[a.eu[e]]] = int32(2 * e)
+		fill[a.eu[e]]++
+		a.adj[fill[a.ev[e]]] = int32(2*e + 1)
+		fill[a.ev[e]]++
+	}
+	for v := 0; v < nv; v++ {
+		list := a.adj[a.adjStart[v]:a.adjStart[v+1]]
+		if len(list) <= 2 {
+			continue
+		}
+		o := a.hot[v]
+		slices.SortFunc(list, func(h1, h2 int32) int {
+			p, q := a.hot[a.dst(h1)], a.hot[a.dst(h2)]
+			return angleCmp(p.x-o.x, p.y-o.y, q.x-o.x, q.y-o.y)
+		})
+	}
+	a.pos = make([]int32, 2*ne)
+	for i, h := range a.adj {
+		a.pos[h] = int32(i)
+	}
+}
+
+// angleCmp orders directions counter-clockwise starting from +x.
+func angleCmp(ax, ay, bx, by int64) int {
+	ha, hb := half(ax, ay), half(bx, by)
+	if ha != hb {
+		return ha - hb
+	}
+	return -crossSign(ax, ay, bx, by)
+}
+
+func half(x, y int64) int {
+	if y > 0 || (y == 0 && x > 0) {
+		return 0
+	}
+	return 1
+}
+
+// traceFaces links every half-edge to the next one around the face on its
+// left and numbers the faces.
+func (a *arrangement) traceFaces() {
+	nh := len(a.adj)
+	a.nxt = make([]int32, nh)
+	for h := 0; h < nh; h++ {
+		v := a.dst(int32(h))
+		i := a.pos[h^1] - 1
+		if i < a.adjStart[v] {
+			i = a.adjStart[v+1] - 1
+		}
+		a.nxt[h] = a.adj[i]
+	}
+	a.face = make([]int32, nh)
+	for h := range a.face {
+		a.face[h] = -1
+	}
+}
+
+// windings computes the winding number of every face and returns, per
+// half-edge, whether it bounds {winding ≥ 1} with that set on its left.
+func (a *arrangement) windings() []bool {
+	nh := len(a.adj)
+	nv := len(a.hot)
+	// Faces and their signed areas.
+	var faceArea []i128
+	var faceHE []int32
+	o := a.hot[0]
+	for h0 := 0; h0 < nh; h0++ {
+		if a.face[h0] >= 0 {
+			continue
+		}
+		f := int32(len(faceHE))
+		var ar i128
+		h := int32(h0)
+		for a.face[h] < 0 {
+			a.face[h] = f
+			p, q := a.hot[a.org(h)], a.hot[a.dst(h)]
+			ar = ar.add(cross(p.x-o.x, p.y-o.y, q.x-o.x, q.y-o.y))
+			h = a.nxt[h]
+		}
+		faceArea = append(faceArea, ar)
+		faceHE = append(faceHE, int32(h0))
+	}
+	nf := len(faceHE)
+	// Connected components (union-find over vertices).
+	parent := make([]int32, nv)
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	find := func(x int32) int32 {
+		for parent[x] != x {
+			parent[x] = parent[parent[x]]
+			x = parent[x]
+		}
+		return x
+	}
+	for e := range a.eu {
+		ru, rv := find(a.eu[e]), find(a.ev[e])
+		if ru != rv {
+			if ru < rv {
+				parent[rv] = ru
+			} else {
+				parent[ru] = rv
+			}
+		}
+	}
+	// Per component: lowest vertex and outer face.
+	compMin := make(map[int32]int32)
+	var roots []int32
+	for e := range a.eu {
+		for _, v := range [2]int32{a.eu[e], a.ev[e]} {
+			r := find(v)
+			m, ok := compMin[r]
+			if !ok {
+				roots = append(roots, r)
+				compMin[r] = v
+				continue
+			}
+			p, q := a.hot[v], a.hot[m]
+			if p.y < q.y || (p.y == q.y && p.x < q.x) {
+				compMin[r] = v
+			}
+		}
+	}
+	outer := make(map[int32]int32, len(roots))
+	for f := 0; f < nf; f++ {
+		if faceArea[f].sign() < 0 {
+			outer[find(a.org(faceHE[f]))] = int32(f)
+		}
+	}
+	wf := make([]int32, nf)
+	set := make([]bool, nf)
+	stamp := make([]int32, len(a.sa))
+	var queue []int32
+	for k, r := range roots {
+		var w0 int32
+		if len(roots) > 1 {
+			w0 = a.rayWinding(a.hot[compMin[r]], stamp, int32(k+1))
+		}
+		f0, ok := outer[r]
+		if !ok {
+			continue // cannot happen for a bridgeless graph
+		}
+		wf[f0], set[f0] = w0, true
+		queue = append(queue[:0], f0)
+		for len(queue) > 0 {
+			f := queue[len(queue)-1]
+			queue = queue[:len(queue)-1]
+			h := faceHE[f]
+			for {
+				g := a.face[h^1]
+				if !set[g] {
+					c := a.ec[h>>1]
+					if h&1 == 1 {
+						c = -c
+					}
+					wf[g], set[g] = wf[f]-c, true
+					queue = append(queue, g)
+				}
+				h = a.nxt[h]
+				if h == faceHE[f] {
+					break
+				}
+			}
+		}
+	}
+	keep := make([]bool, nh)
+	for h := 0; h < nh; h++ {
+		in := wf[a.face[h]] >= 1
+		out := wf[a.face[h^1]] >= 1
+		keep[h] = in && !out
+	}
+	return keep
+}
+
+// rayWinding returns the winding number, about a point just below v, of
+// every rerouted piece: the signed count of pieces crossing the downward
+// vertical ray (taken at x = v.x + ε).
+func (a *arrangement) rayWinding(v ipt, stamp []int32, mark int32) int32 {
+	col := a.g.col(float64(v.x) - a.g.ox)
+	row := a.g.row(float64(v.y) - a.g.oy)
+	var w int32
+	for r := 0; r <= row; r++ {
+		c := r*a.g.nx + col
+		for _, s := range a.cellSegs[a.cellStart[c]:a.cellStart[c+1]] {
+			if stamp[s] == mark {
+				continue
+			}
+			stamp[s] = mark
+			rt := a.route[a.routeStart[s]:a.routeStart[s+1]]
+			for i := 0; i+1 < len(rt); i++ {
+				p, q := a.hot[rt[i]], a.hot[rt[i+1]]
+				sg := int32(1)
+				if p.x > q.x {
+					p, q, sg = q, p, -1
+				}
+				if p.x <= v.x && v.x < q.x && orient(p, q, v) > 0 {
+					w += sg
+				}
+			}
+		}
+	}
+	return w
+}
+
+// link joins the kept half-edges into rings and splits them at repeated
+// vertices into simple rings.
+func (a *arrangement) link(keep []bool) [][]ipt {
+	nh := len(a.adj)
+	used := make([]bool, nh)
+	seen := make([]int32, len(a.hot))
+	for i := range seen {
+		seen[i] = -1
+	}
+	var out [][]ipt
+	var stack []int32
+	emit := func(vs []int32) {
+		if len(vs) < 3 {
+			for _, v := range vs {
+				seen[v] = -1
+			}
+			return
+		}
+		r := make([]ipt, len(vs))
+		for i, v := range vs {
+			r[i] = a.hot[v]
+			seen[v] = -1
+		}
+		out = append(out, r)
+	}
+	for h0 := 0; h0 < nh; h0++ {
+		if !keep[h0] || used[h0] {
+			continue
+		}
+		stack = stack[:0]
+		h := int32(h0)
+		for !used[h] {
+			used[h] = true
+			v := a.org(h)
+			if p := seen[v]; p >= 0 {
+				emit(stack[p:])
+				stack = stack[:p]
+			}
+			seen[v] = int32(len(stack))
+			stack = append(stack, v)
+			// Next kept half-edge out of dst(h), first clockwise from the
+			// reverse of h.
+			d := a.dst(h)
+			s, e := a.adjStart[d], a.adjStart[d+1]
+			i := a.pos[h^1]
+			for k := s; k < e; k++ {
+				i--
+				if i < s {
+					i = e - 1
+				}
+				if keep[a.adj[i]] {
+					break
+				}
+			}
+			h = a.adj[i]
+		}
+		emit(stack)
+	}
+	return out
+}
