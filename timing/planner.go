@@ -198,8 +198,8 @@ func NewPlanner(m Machine, opt Options) (*Planner, error) {
 		p.ac[i] = m.Accel.get(i)
 		p.jk[i] = m.Jerk.get(i)
 	}
-	p.axy = math.Min(p.ac[0], p.ac[1])
-	p.jxy = math.Min(p.jk[0], p.jk[1])
+	p.axy = min(p.ac[0], p.ac[1])
+	p.jxy = min(p.jk[0], p.jk[1])
 	p.rep.Machine = m.Name
 	p.rep.Model = opt.Model.String()
 	return p, nil
@@ -271,6 +271,9 @@ func (p *Planner) addMove(b Block) error {
 	if s.l <= 0 {
 		return nil
 	}
+	if math.IsInf(s.l, 0) || math.IsNaN(s.l) || math.IsInf(s.naive, 0) || math.IsNaN(s.naive) {
+		return blockErr(b, "move too long to time")
+	}
 	n := len(p.buf)
 	if n > 0 && p.buf[n-1].rapid != s.rapid {
 		p.flush() // design notes §6: stop at every rapid/feed change
@@ -279,7 +282,7 @@ func (p *Planner) addMove(b Block) error {
 	if n > 0 {
 		prev := &p.buf[n-1]
 		s.jin = p.junction(prev, &s)
-		s.fin = math.Min(s.jin, p.reach(prev.fin, prev))
+		s.fin = min(s.jin, p.reach(prev.fin, prev))
 	}
 	p.buf = append(p.buf, s)
 	if len(p.buf) == p.window {
@@ -306,10 +309,10 @@ func (p *Planner) lineSeg(s *seg, b Block) bool {
 	for i := range 3 {
 		if u[i] != 0 {
 			a := math.Abs(u[i])
-			v = math.Min(v, caps[i]/a)
-			acc = math.Min(acc, p.ac[i]/a)
+			v = min(v, caps[i]/a)
+			acc = min(acc, p.ac[i]/a)
 			if p.jerk {
-				jerk = math.Min(jerk, p.jk[i]/a)
+				jerk = min(jerk, p.jk[i]/a)
 			}
 		}
 	}
@@ -358,17 +361,17 @@ func (p *Planner) arcSeg(s *seg, b Block) error {
 	s.tout = [3]float64{-dir * ey / r1 * xy, dir * ex / r1 * xy, z}
 	// Axis feed caps use the largest share of the path speed each axis
 	// takes along the arc: arc/l for X and Y, |dz|/l for Z.
-	v := math.Min(b.Feed/60, math.Min(p.mf[0], p.mf[1])/xy)
+	v := min(b.Feed/60, min(p.mf[0], p.mf[1])/xy)
 	acc, jerk := p.axy, p.jxy
 	if dz != 0 {
 		az := math.Abs(z)
-		v = math.Min(v, p.mf[2]/az)
-		acc = math.Min(acc, p.ac[2]/az)
-		jerk = math.Min(jerk, p.jk[2]/az)
+		v = min(v, p.mf[2]/az)
+		acc = min(acc, p.ac[2]/az)
+		jerk = min(jerk, p.jk[2]/az)
 	}
 	s.naive = l / v
 	// design notes §6: arcs also v <= sqrt(a_xy·R)
-	v = math.Min(v, math.Sqrt(p.axy*r))
+	v = min(v, math.Sqrt(p.axy*r))
 	s.l, s.vmax, s.acc, s.jerk = l, v, acc, jerk
 	return nil
 }
@@ -377,15 +380,15 @@ func (p *Planner) arcSeg(s *seg, b Block) error {
 // the same kind): design notes §6, s = cos(α/2), R_b = tol·s/(1−s),
 // v_j = min(caps, sqrt(min(a_a, a_b)·R_b)).
 func (p *Planner) junction(a, b *seg) float64 {
-	v := math.Min(a.vmax, b.vmax)
+	v := min(a.vmax, b.vmax)
 	c := a.tout[0]*b.tin[0] + a.tout[1]*b.tin[1] + a.tout[2]*b.tin[2]
-	c = math.Max(-1, math.Min(1, c))
+	c = max(-1, min(1, c))
 	s := math.Sqrt((1 + c) / 2)
 	if s >= 1 {
 		return v // straight on
 	}
 	rb := p.tol * s / (1 - s)
-	return math.Min(v, math.Sqrt(math.Min(a.acc, b.acc)*rb))
+	return min(v, math.Sqrt(min(a.acc, b.acc)*rb))
 }
 
 // reach is the highest exit speed of s from entry speed v.
@@ -442,10 +445,10 @@ func (p *Planner) flushWindow() {
 		e = n / 2
 		p.rep.WindowLimited += int64(e - clip)
 		s := &p.buf[e]
-		s.fin = math.Min(s.fin, s.bin)
+		s.fin = min(s.fin, s.bin)
 		for k := e + 1; k < n; k++ {
 			prev, s := &p.buf[k-1], &p.buf[k]
-			v := math.Min(s.jin, p.reach(prev.fin, prev))
+			v := min(s.jin, p.reach(prev.fin, prev))
 			if v >= s.fin {
 				break
 			}
@@ -462,10 +465,10 @@ func (p *Planner) emit(e int) {
 	buf := p.buf
 	for k := 0; k < e; k++ {
 		s := &buf[k]
-		v0 := math.Min(s.fin, s.bin)
+		v0 := min(s.fin, s.bin)
 		v1 := 0.0
 		if k+1 < len(buf) {
-			v1 = math.Min(buf[k+1].fin, buf[k+1].bin)
+			v1 = min(buf[k+1].fin, buf[k+1].bin)
 		}
 		var t, peak float64
 		if p.jerk {

@@ -16,7 +16,7 @@ func timeR1(l, v0, v1, vmax, a float64) (t, peak float64) {
 	vp2 := a*l + (v0*v0+v1*v1)/2
 	if vp2 <= vmax*vmax {
 		vp := math.Sqrt(vp2)
-		vp = math.Max(vp, math.Max(v0, v1))
+		vp = max(vp, max(v0, v1))
 		return (2*vp - v0 - v1) / a, vp
 	}
 	dacc := (vmax*vmax - v0*v0) / (2 * a)
@@ -74,7 +74,7 @@ func timeJerk(l, v0, v1, vmax, a, j float64) (t, peak float64) {
 	if dacc+ddec <= l {
 		return sTime(vmax-v0, a, j) + sTime(vmax-v1, a, j) + (l-dacc-ddec)/vmax, vmax
 	}
-	lo, hi := math.Max(v0, v1), vmax
+	lo, hi := max(v0, v1), vmax
 	if sDist(v0, lo, a, j)+sDist(v1, lo, a, j) > l {
 		// only reachable by rounding: the passes keep v0 and v1 feasible
 		return sTime(math.Abs(v1-v0), a, j), lo

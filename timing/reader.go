@@ -427,7 +427,28 @@ func (r *Reader) execute() error {
 			return r.errf("G%s not supported", gName(g))
 		}
 	}
+	// NIST RS274NGC v3: at most one M code of each modal group per line
+	var groups [5]bool
 	for _, m := range r.ms[:r.nm] {
+		g := -1
+		switch m {
+		case 0, 1, 2, 30, 60:
+			g = 0
+		case 6:
+			g = 1
+		case 3, 4, 5:
+			g = 2
+		case 7, 8, 9:
+			g = 3
+		case 48, 49:
+			g = 4
+		}
+		if g >= 0 {
+			if groups[g] {
+				return r.errf("two M codes of one modal group on a line")
+			}
+			groups[g] = true
+		}
 		switch m {
 		case 0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 30, 48, 49, 60:
 		case 98, 99:
@@ -578,7 +599,7 @@ func (r *Reader) move() error {
 // arcTol is how far the end radius of an I J arc may differ from the start
 // radius, and how far an R arc's chord may exceed its diameter, mm.
 // Common practice, no source.
-func arcTol(r float64) float64 { return math.Max(0.002, 1e-3*r) }
+func arcTol(r float64) float64 { return max(0.002, 1e-3*r) }
 
 func (r *Reader) arcCenter(from, to [3]float64, cw bool, u float64) ([2]float64, error) {
 	if r.has('K') {
