@@ -1,6 +1,7 @@
 package timing
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"io"
@@ -57,17 +58,27 @@ func (s *synthProgram) Read(b []byte) (int, error) {
 		return n, nil
 	}
 	for n < len(b) && s.lines > 0 {
-		// copy up to the end of the pattern or of b, counting lines
+		// copy up to the end of the pattern or of b, then cut back to the
+		// lines still owed
 		end := min(len(s.pattern), s.off+len(b)-n)
-		j := s.off
-		for j < end && s.lines > 0 {
-			if s.pattern[j] == '\n' {
-				s.lines--
+		chunk := s.pattern[s.off:end]
+		if c := bytes.Count(chunk, []byte{'\n'}); c >= s.lines {
+			k := 0
+			for j, ch := range chunk {
+				if ch == '\n' {
+					k++
+					if k == s.lines {
+						chunk = chunk[:j+1]
+						break
+					}
+				}
 			}
-			j++
+			s.lines = 0
+		} else {
+			s.lines -= c
 		}
-		n += copy(b[n:], s.pattern[s.off:j])
-		s.off = j
+		n += copy(b[n:], chunk)
+		s.off += len(chunk)
 		if s.off == len(s.pattern) {
 			s.off = 0
 		}

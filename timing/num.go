@@ -25,16 +25,12 @@ func parseNumber(b []byte) (v float64, n int, ok bool) {
 	}
 	var mant uint64
 	digits, frac := 0, 0
-	big := false
 	for ; i < len(b); i++ {
 		c := b[i] - '0'
 		if c > 9 {
 			break
 		}
-		if mant >= 1<<53/10 {
-			big = true
-		}
-		mant = mant*10 + uint64(c)
+		mant = mant*10 + uint64(c) // may wrap past 19 digits; then unused
 		digits++
 	}
 	if i < len(b) && b[i] == '.' {
@@ -44,9 +40,6 @@ func parseNumber(b []byte) (v float64, n int, ok bool) {
 			if c > 9 {
 				break
 			}
-			if mant >= 1<<53/10 {
-				big = true
-			}
 			mant = mant*10 + uint64(c)
 			digits++
 			frac++
@@ -55,7 +48,8 @@ func parseNumber(b []byte) (v float64, n int, ok bool) {
 	if digits == 0 {
 		return 0, i, false
 	}
-	if big || frac >= len(pow10) {
+	// up to 19 digits fit in a uint64; the fast path needs mant < 2^53
+	if digits > 19 || mant >= 1<<53 || frac >= len(pow10) {
 		f, err := strconv.ParseFloat(string(b[:i]), 64)
 		if err != nil {
 			return 0, i, false

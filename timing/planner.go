@@ -56,7 +56,12 @@ type Options struct {
 	// Model is the speed model.
 	Model Model
 	// Window is the number of segments planned ahead; zero means
-	// DefaultWindow. Memory is proportional to it.
+	// DefaultWindow. Memory is proportional to it. When the window fills
+	// without a stop, the backward pass assumes a stop after its last
+	// segment. That is exact for every segment before the last junction
+	// whose speed is set by its own limit (a stop, a corner, a cap) within
+	// the window, and conservative (too slow, never too fast) otherwise;
+	// Report.WindowLimited counts the conservative moves.
 	Window int
 	// OnBlock, when set, receives the time of every timed block in program
 	// order, so per-block times need no memory in the planner.
@@ -212,13 +217,10 @@ func blockErr(b Block, msg string) error {
 	return errors.New("timing: " + msg)
 }
 
+// finite3 reports whether all three values are finite: x−x is NaN for
+// NaN and ±Inf, zero otherwise.
 func finite3(v [3]float64) bool {
-	for _, x := range v {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return false
-		}
-	}
-	return true
+	return v[0]-v[0] == 0 && v[1]-v[1] == 0 && v[2]-v[2] == 0
 }
 
 // Add plans one block. Moves of zero length are skipped.
@@ -254,7 +256,7 @@ func (p *Planner) Add(b Block) error {
 
 // addMove turns a move into a segment and plans it.
 func (p *Planner) addMove(b Block) error {
-	if !finite3(b.From) || !finite3(b.To) || math.IsNaN(b.Center[0]+b.Center[1]) || math.IsInf(b.Center[0]+b.Center[1], 0) {
+	if !finite3(b.From) || !finite3(b.To) || !finite3([3]float64{b.Center[0], b.Center[1], 0}) {
 		return blockErr(b, "coordinates are not finite")
 	}
 	s := seg{kind: b.Kind, line: b.Line, op: b.Op, rapid: b.Kind == KindRapid}
@@ -271,7 +273,7 @@ func (p *Planner) addMove(b Block) error {
 	if s.l <= 0 {
 		return nil
 	}
-	if math.IsInf(s.l, 0) || math.IsNaN(s.l) || math.IsInf(s.naive, 0) || math.IsNaN(s.naive) {
+	if !finite3([3]float64{s.l, s.naive, 0}) {
 		return blockErr(b, "move too long to time")
 	}
 	n := len(p.buf)
