@@ -1,0 +1,40 @@
+// Package engage knows how hard a milling cutter works along any 2.5D
+// toolpath. It holds a model of the material left in the stock, measures the
+// radial engagement of a flat end mill at any position (engagement angle φ,
+// entry and exit angles, radial width ae and axial depth ap), simulates whole
+// toolpaths through the model and derives cutting data from the result: chip
+// thinning, feed scheduling, Kienzle force and power and a flute-wear profile.
+//
+// # Material model
+//
+// A [Material] is a 2.5D height field on a square grid: for every cell it
+// keeps the top Z of the remaining material (the stock top is usually Z = 0,
+// cuts go to Z < 0, outside the stock there is no material). A plain height
+// raster only knows the material boundary to a cell; engagement tests at
+// small stepovers need it to a few microns. So every cell also keeps a
+// cut-distance value: r − d, where d is the distance from the cell centre to
+// the nearest tool-centre position that cut it (positive inside the cut), and
+// for cells that still hold material the same value for the nearest deeper
+// tool position that passed by without reaching it (negative). The material
+// boundary at a height is the zero iso-line of that field, found by bilinear
+// interpolation. Distance fields of straight tool-centre paths are linear and
+// those of arcs nearly so, so the boundary comes out to well under a micron
+// from 0.1–0.2 mm cells. Stock outlines and already removed regions start the
+// field with their exact signed distance.
+//
+// # Simulation
+//
+// [Simulate] walks a [geom.Toolpath] in small steps. At each sample it
+// measures the engagement before removing material at the new position; the
+// cut itself is stamped into the model as the exact swept area of the line
+// or arc (capsule or annulus sector), lazily and only over the swept band.
+// The result is a per-sample profile and a [Summary] with the figures a
+// program check needs: engagement maxima and means, the share of cutting
+// length inside the radial-engagement band, air cutting, plunges, rapids
+// through material (always reported), wall gouges and uncut material.
+//
+// Units: millimetres, mm/min for feeds, rpm for spindle speed, radians for
+// angles unless a name says degrees, mm³/min for material-removal rates,
+// N/mm² for specific cutting force, N, N·m and kW for forces, torques and
+// power.
+package engage

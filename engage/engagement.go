@@ -1,0 +1,194 @@
+package engage
+
+import (
+	"math"
+
+	"github.com/chipband/chipband/geom"
+)
+
+// Engagement is the contact of the cutter periphery with material at one
+// tool position.
+//
+// Angles are immersion angles after Altintas (2012, ch. 2): measured from
+// the left normal of the feed direction, in the sense of rotation of a
+// right-hand cutter turning clockwise seen from above (M3). A tooth at
+// immersion ψ sits at c + r·(sin ψ·u + cos ψ·n), u the feed direction and n
+// its left normal, so ψ = 0 is the left side, π/2 the front and π the right
+// side. Material on the left is up (conventional) milling, on the right down
+// (climb) milling.
+type Engagement struct {
+	Phi   float64 // engaged angle φ, radians (sum over all engaged arcs)
+	Entry float64 // immersion angle where the first engaged arc starts, radians
+	Exit  float64 // immersion angle where the last engaged arc ends, radians
+	AE    float64 // radial width ae, mm: r·(1 − cos φ) for φ ≤ π, else D
+	AP    float64 // axial depth ap, mm: highest material above the tool bottom on the engaged arc
+	// SinMax is the largest sin ψ over the engaged arcs (the ratio h_max/fz)
+	// and SinMean the mean of sin ψ over them (h_mean/fz).
+	SinMax, SinMean float64
+	// Full is set when the whole circle was examined (no feed direction in
+	// the XY plane, as in a plunge); the angles then start at +Y.
+	Full bool
+}
+
+// PhiDeg returns φ in degrees.
+func (e Engagement) PhiDeg() float64 { return e.Phi * 180 / math.Pi }
+
+// engageSamples is the number of intervals on the front half circle.
+const engageSamples = 48
+
+// Engage returns the engagement of tool t at position at (tool-centre XY,
+// tool-bottom Z) moving along dir in the XY plane. Only the front half of
+// the periphery is examined, because in continuous motion the rear half
+// runs in what the tool has just cut. When dir is zero (a vertical move)
+// the whole circle is examined.
+func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
+	var e Engagement
+	if !finite(at.X, at.Y, at.Z, dir.X, dir.Y) || !(t.Diameter > 0) {
+		return e
+	}
+	if at.Z >= m.top-epsZ {
+		return e
+	}
+	r := t.Radius()
+	u := dir.Unit()
+	full := u == (geom.Point{})
+	if full {
+		u = geom.Pt(1, 0)
+	}
+	n := u.Perp()
+	zt := float32(at.Z + epsZ)
+	span := math.Pi
+	steps := engageSamples
+	if full {
+		span, steps = 2*math.Pi, 2*engageSamples
+	}
+	d := span / float64(steps)
+	eval := func(psi float64) (float32, float32) {
+		s, c := math.Sincos(psi)
+		return m.field(at.X+r*(s*u.X+c*n.X), at.Y+r*(s*u.Y+c*n.Y), zt)
+	}
+	// root refines a sign change of the field between psi a (va) and b (vb).
+	root := func(a, b float64, va, vb float32) float64 {
+		x := a + (b-a)*float64(va/(va-vb))
+		vx, _ := eval(x)
+		if (vx < 0) == (va < 0) {
+			if vb != vx {
+				return x + (b-x)*float64(vx/(vx-vb))
+			}
+			return x
+		}
+		if va != vx {
+			return a + (x-a)*float64(va/(va-vx))
+		}
+		return x
+	}
+	var (
+		phi, sinInt, sinMax float64
+		first               = -1.0
+		last                float64
+		hmax                = float32(math.Inf(-1))
+	)
+	addArc := func(a, b float64) {
+		if b <= a {
+			return
+		}
+		if first < 0 {
+			first = a
+		}
+		last = b
+		phi += b - a
+		if full {
+			return
+		}
+		sinInt += math.Cos(a) - math.Cos(b)
+		if a <= math.Pi/2 && b >= math.Pi/2 {
+			sinMax = 1
+		} else {
+			sinMax = math.Max(sinMax, math.Max(math.Sin(a), math.Sin(b)))
+		}
+	}
+	pv, ph := eval(0)
+	if pv < 0 {
+		hmax = max(hmax, ph)
+	}
+	v0 := pv
+	start := 0.0 // start of the current material arc, when pv < 0
+	for k := 1; k <= steps; k++ {
+		psi := float64(k) * d
+		var v, hv float32
+		if full && k == steps {
+			v, hv = v0, ph
+		} else {
+			v, hv = eval(psi)
+		}
+		if v < 0 {
+			hmax = max(hmax, hv)
+		}
+		switch {
+		case pv < 0 && v < 0:
+		case pv < 0 && v >= 0:
+			addArc(start, root(psi-d, psi, pv, v))
+		case pv >= 0 && v < 0:
+			start = root(psi-d, psi, pv, v)
+		}
+		pv = v
+	}
+	if pv < 0 {
+		addArc(start, span)
+	}
+	if phi <= 0 {
+		return e
+	}
+	e.Phi = phi
+	e.Entry, e.Exit = first, last
+	e.Full = full
+	if phi >= math.Pi {
+		e.AE = t.Diameter
+	} else {
+		e.AE = r * (1 - math.Cos(phi))
+	}
+	if !math.IsInf(float64(hmax), -1) {
+		e.AP = math.Max(float64(hmax)-at.Z, 0)
+	}
+	if full {
+		e.SinMax, e.SinMean = 1, 1
+	} else {
+		e.SinMax = sinMax
+		e.SinMean = sinInt / phi
+	}
+	return e
+}
+
+// diskMaterial returns the area of material under the tool bottom inside
+// the disk of radius r about c at height z, and the highest material top
+// there above z (0 when none).
+func (m *Material) diskMaterial(c geom.Point, z, r float64) (area, above float64) {
+	zt := float32(z + epsZ)
+	j0 := max(int(math.Ceil((c.Y-r-m.y0)*m.inv-0.5)), 0)
+	j1 := min(int(math.Floor((c.Y+r-m.y0)*m.inv-0.5))+1, m.ny)
+	var cnt int
+	top := float32(math.Inf(-1))
+	for j := j0; j < j1; j++ {
+		dy := m.cy(j) - c.Y
+		w2 := r*r - dy*dy
+		if w2 < 0 {
+			continue
+		}
+		w := math.Sqrt(w2)
+		i0, i1 := m.rowSpan(c.X-w, c.X+w)
+		if i1 <= i0 {
+			continue
+		}
+		row := j * m.nx
+		for _, h := range m.h[row+i0 : row+i1] {
+			if h > zt {
+				cnt++
+				top = max(top, h)
+			}
+		}
+	}
+	if cnt == 0 {
+		return 0, 0
+	}
+	return float64(cnt) * m.cell * m.cell, float64(top) - z
+}
