@@ -114,10 +114,10 @@ type Summary struct {
 	AirLength    float64 `json:"air_length"`    // length of class Air, mm
 	RapidLength  float64 `json:"rapid_length"`  // length of rapids, mm
 
-	MaxAeD  float64 `json:"max_ae_d"`      // largest ae/D of a cutting sample
-	MeanAeD float64 `json:"mean_ae_d"`     // length-weighted mean ae/D over cutting
-	MaxPhi  float64 `json:"max_phi_deg"`   // largest engagement angle, degrees
-	MeanPhi float64 `json:"mean_phi_deg"`  // length-weighted mean angle, degrees
+	MaxAeD  float64 `json:"max_ae_d"`       // largest ae/D of a cutting sample
+	MeanAeD float64 `json:"mean_ae_d"`      // length-weighted mean ae/D over cutting
+	MaxPhi  float64 `json:"max_phi_deg"`    // largest engagement angle, degrees
+	MeanPhi float64 `json:"mean_phi_deg"`   // length-weighted mean angle, degrees
 	MaxEng  float64 `json:"max_engagement"` // largest 1 mm moving average of ae/D over cutting
 
 	Band              [2]float64 `json:"band"`
