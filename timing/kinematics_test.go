@@ -280,3 +280,18 @@ func TestJerkNeedsLimits(t *testing.T) {
 		t.Errorf("err = %v, want a message about jerk", err)
 	}
 }
+
+func TestReachJerkSolvesItsEquation(t *testing.T) {
+	// definition of the reachable speed: the S-curve from v to reachJerk(v)
+	// covers exactly l (Erkorkmaz & Altintas 2001, from memory, for the
+	// S-curve distance (v0+v1)/2·T)
+	for _, c := range [][4]float64{{0, 1000, 50000, 100}, {0, 1000, 5000, 1}, {30, 1000, 5000, 1},
+		{0, 150, 2000, 0.01}, {80, 500, 1e4, 0.05}, {10, 500, 1e9, 3}, {0, 1000, 1e8, 1e-6}} {
+		v, a, j, l := c[0], c[1], c[2], c[3]
+		v1 := reachJerk(v, a, j, l)
+		near(t, "S-curve distance", sDist(v, v1, a, j), l, 1e-9*(1+l))
+		if v1 > reachR1(v, a, l)+1e-9 {
+			t.Errorf("reachJerk %v above the constant-acceleration reach %v", v1, reachR1(v, a, l))
+		}
+	}
+}

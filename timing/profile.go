@@ -46,24 +46,39 @@ func sDist(va, vb, a, j float64) float64 {
 }
 
 // reachJerk is the highest speed reachable from v over length l with
-// acceleration a and jerk j. It lies below reachR1, which bounds the search.
+// acceleration a and jerk j: the v1 with sDist(v, v1) = l, solved in closed
+// form. When the acceleration reaches a (Δ = v1−v >= a²/j) the distance
+// (v + Δ/2)(Δ/a + a/j) = l is a quadratic in Δ; below that, with s = √Δ,
+// (v + s²/2)·2s/√j = l is the cubic s³ + 2·v·s − l·√j = 0, solved by
+// Newton's method from above (the cubic is convex and increasing for s > 0).
 func reachJerk(v, a, j, l float64) float64 {
-	lo, hi := v, reachR1(v, a, l)
-	if sDist(v, hi, a, j) <= l {
-		return hi
+	if l <= 0 {
+		return v
 	}
-	for range 100 {
-		mid := (lo + hi) / 2
-		if mid <= lo || mid >= hi {
+	dfull := a * a / j
+	// quadratic: Δ²/(2a) + Δ·(v/a + a/(2j)) + (v·a/j − l) = 0
+	qa, qb, qc := 1/(2*a), v/a+a/(2*j), v*a/j-l
+	if disc := qb*qb - 4*qa*qc; disc >= 0 {
+		d := (-qb + math.Sqrt(disc)) / (2 * qa)
+		if qc < 0 {
+			d = 2 * (-qc) / (qb + math.Sqrt(disc)) // same root, no cancellation
+		}
+		if d >= dfull {
+			return v + d
+		}
+	}
+	q := l * math.Sqrt(j)
+	x := min(math.Cbrt(q), q/(2*v)) // both bound the root from above
+	for range 50 {
+		f := x*x*x + 2*v*x - q
+		nx := x - f/(3*x*x+2*v)
+		if nx >= x || x-nx <= 1e-15*x {
+			x = min(x, nx)
 			break
 		}
-		if sDist(v, mid, a, j) <= l {
-			lo = mid
-		} else {
-			hi = mid
-		}
+		x = nx
 	}
-	return lo
+	return v + x*x
 }
 
 // timeJerk is the time of a seven-phase jerk-limited profile: S-curve
