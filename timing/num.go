@@ -5,7 +5,8 @@ import (
 	"strconv"
 )
 
-// pow10 holds the powers of ten that float64 represents exactly.
+// pow10 holds the powers of ten that float64 represents exactly. It is a
+// read-only table.
 var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9,
 	1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
 

@@ -36,12 +36,25 @@ const (
 	KindEnd
 )
 
-var kindNames = [...]string{"", "rapid", "line", "arc", "dwell", "stop", "tool change", "spindle start", "end"}
-
 // String returns the kind's name in lower case, e.g. "rapid".
 func (k Kind) String() string {
-	if int(k) < len(kindNames) && k > 0 {
-		return kindNames[k]
+	switch k {
+	case KindRapid:
+		return "rapid"
+	case KindLine:
+		return "line"
+	case KindArc:
+		return "arc"
+	case KindDwell:
+		return "dwell"
+	case KindStop:
+		return "stop"
+	case KindToolChange:
+		return "tool change"
+	case KindSpindleStart:
+		return "spindle start"
+	case KindEnd:
+		return "end"
 	}
 	return fmt.Sprintf("Kind(%d)", uint8(k))
 }
