@@ -8,11 +8,6 @@ import (
 	"github.com/chipband/chipband/geom"
 )
 
-// deepestDefaultTol is the tolerance DeepestPoint uses when it is given
-// tol ≤ 0: 0.001 mm, the same value as the package's default offset
-// tolerance.
-const deepestDefaultTol = 0.001
-
 // deepestMaxCells bounds the work of one search. The search converges long
 // before this on any region within geom's coordinate limits; reaching it
 // means the input is degenerate and is reported as an error.
@@ -25,7 +20,7 @@ const deepestMaxCells = 20_000_000
 //
 // The result is within tol of the optimum: the returned point lies inside g
 // at exactly the returned distance from its boundary, and no point of g is
-// farther than radius+tol from the boundary. tol ≤ 0 means 0.001 mm.
+// farther than radius+tol from the boundary. tol ≤ 0 means DefaultTolerance.
 //
 // The search covers the bounding box with square cells kept in a priority
 // queue ordered by the best distance a cell could still hold (the distance
@@ -42,7 +37,7 @@ func DeepestPoint(g geom.Region, tol float64) (geom.Point, float64, error) {
 		return geom.Point{}, 0, fmt.Errorf("deepest point: tolerance %v is not finite", tol)
 	}
 	if tol <= 0 {
-		tol = deepestDefaultTol
+		tol = DefaultTolerance
 	}
 	if len(g.Outer) < 3 {
 		return geom.Point{}, 0, fmt.Errorf("deepest point: outer ring has %d points, need at least 3", len(g.Outer))

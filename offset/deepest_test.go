@@ -160,7 +160,7 @@ func TestDeepestPointOrientationAndDeterminism(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if math.Abs(r1-r2) > deepestDefaultTol {
+	if math.Abs(r1-r2) > DefaultTolerance {
 		t.Errorf("clockwise ring: radius %v vs %v", r2, r1)
 	}
 	p3, r3, _ := DeepestPoint(g, 0)
