@@ -34,7 +34,7 @@ type Engagement struct {
 func (e Engagement) PhiDeg() float64 { return e.Phi * 180 / math.Pi }
 
 // engageSamples is the number of intervals on the front half circle.
-const engageSamples = 48
+const engageSamples = 32
 
 // Engage returns the engagement of tool t at position at (tool-centre XY,
 // tool-bottom Z) moving along dir in the XY plane. Only the front half of
@@ -66,6 +66,20 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 	eval := func(psi float64) (float32, float32) {
 		s, c := math.Sincos(psi)
 		return m.field(at.X+r*(s*u.X+c*n.X), at.Y+r*(s*u.Y+c*n.Y), zt)
+	}
+	// Circle points on the fixed grid come from the table of the material.
+	ux, uy := r*u.X, r*u.Y
+	nx, ny := r*n.X, r*n.Y
+	tab := &m.circle
+	evalK := func(k int) (float32, float32) {
+		sc := tab[k%(2*engageSamples)]
+		return m.field(at.X+sc[0]*ux+sc[1]*nx, at.Y+sc[0]*uy+sc[1]*ny, zt)
+	}
+	// The field is close to a distance (1-Lipschitz), so no boundary lies
+	// within |v| of a sample: grid points closer than that are skipped.
+	skip := func(v float32) int {
+		k := int(0.7 * math.Abs(float64(v)) / (r * d))
+		return max(k, 1)
 	}
 	// root refines a sign change of the field between psi a (va) and b (vb).
 	root := func(a, b float64, va, vb float32) float64 {
@@ -107,31 +121,39 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 			sinMax = math.Max(sinMax, math.Max(math.Sin(a), math.Sin(b)))
 		}
 	}
-	pv, ph := eval(0)
+	pv, ph := evalK(0)
 	if pv < 0 {
 		hmax = max(hmax, ph)
 	}
 	v0 := pv
 	start := 0.0 // start of the current material arc, when pv < 0
-	for k := 1; k <= steps; k++ {
-		psi := float64(k) * d
+	for k := 0; k < steps; {
+		k1 := min(k+skip(pv), steps)
 		var v, hv float32
-		if full && k == steps {
+		if full && k1 == steps {
 			v, hv = v0, ph
 		} else {
-			v, hv = eval(psi)
+			v, hv = evalK(k1)
+		}
+		if (v < 0) != (pv < 0) && k1 > k+1 {
+			// A sign change over a skipped stretch: walk it point by point.
+			k1 = k + 1
+			v, hv = evalK(k1)
 		}
 		if v < 0 {
 			hmax = max(hmax, hv)
 		}
+		psi := float64(k1) * d
+		a := float64(k) * d
 		switch {
 		case pv < 0 && v < 0:
 		case pv < 0 && v >= 0:
-			addArc(start, root(psi-d, psi, pv, v))
+			addArc(start, root(a, psi, pv, v))
 		case pv >= 0 && v < 0:
-			start = root(psi-d, psi, pv, v)
+			start = root(a, psi, pv, v)
 		}
 		pv = v
+		k = k1
 	}
 	if pv < 0 {
 		addArc(start, span)

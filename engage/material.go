@@ -49,6 +49,8 @@ type Material struct {
 	a      []float32 // r − d of the cut that set h (positive: removed)
 	b      []float32 // r − d of the nearest deeper pass that did not reach (negative)
 	s      []float32 // signed distance outside the stock outline (positive outside)
+	// circle holds (sin ψ, cos ψ) on the engagement grid of the full circle.
+	circle [2 * engageSamples][2]float64
 }
 
 // NewMaterial returns the material of a stock of outline stock (regions with
@@ -90,11 +92,15 @@ func NewMaterial(stock geom.Shape, top float64, opt MaterialOptions) (*Material,
 	m := &Material{
 		x0: bb.Min.X - pad, y0: bb.Min.Y - pad,
 		cell: c, inv: 1 / c, nx: nx, ny: ny, top: top,
-		band: float32(3 * c),
+		band: float32(5 * c),
 		h:    make([]float32, n),
 		a:    make([]float32, n),
 		b:    make([]float32, n),
 		s:    make([]float32, n),
+	}
+	for k := range m.circle {
+		sn, cs := math.Sincos(float64(k) * math.Pi / engageSamples)
+		m.circle[k] = [2]float64{sn, cs}
 	}
 	win := m.fullWindow()
 	sd := m.signedDistance(stock, win, float64(m.band))

@@ -136,7 +136,12 @@ func (m *Material) stampLine(p piece, r float64) float64 {
 		for i := i0; i < i1; i++ {
 			dx := m.cx(i) - a.X
 			t0 := dx*u.X + dy*u.Y
-			t := math.Min(math.Max(t0, 0), L)
+			t := t0
+			if t < 0 {
+				t = 0
+			} else if t > L {
+				t = L
+			}
 			ex, ey := dx-t*u.X, dy-t*u.Y
 			d2 := ex*ex + ey*ey
 			if d2 > R*R {
