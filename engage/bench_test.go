@@ -77,4 +77,3 @@ func BenchmarkEngage(b *testing.B) {
 		m.Engage(tool10, at, geom.Pt(1, 0))
 	}
 }
-
