@@ -1,0 +1,405 @@
+package pathplan
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/chipband/chipband/geom"
+	"github.com/chipband/chipband/offset"
+)
+
+// BandedOptions tune the banded strategy. The zero value is fine.
+type BandedOptions struct {
+	// Options are the options shared with the layered strategy.
+	Options
+	// Target is the radial engagement ae/D the passes aim at; zero means
+	// the middle of the job's band.
+	Target float64
+	// GridStep is the node spacing of the front raster, mm; zero picks
+	// about a third of the target radial width.
+	GridStep float64
+	// NoVerify skips the simulation and local repair of the finished path.
+	NoVerify bool
+}
+
+// DefaultBand is the radial engagement band used when the job gives none:
+// 5–10 % of the diameter (common practice, no source).
+var defaultBand = [2]float64{0.05, 0.10}
+
+// bandedSettings are the derived cut data of one banded plan.
+type bandedSettings struct {
+	r, target, phi float64
+	feed, entry    float64 // cutting and entry feeds, mm/min
+	helixR         float64 // helix centre-path radius, mm
+	ramp           float64 // ramp angle, radians
+	minR           float64 // smallest path radius, mm
+	h              float64 // grid spacing, mm
+	safe           float64 // height above a level's top at which rapids stop, mm
+}
+
+// bandedSetup derives the banded cut data from the job.
+func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
+	var s bandedSettings
+	d := job.Tool.Diameter
+	if !(d > 0) {
+		return s, errors.New("banded: tool diameter must be positive")
+	}
+	s.r = d / 2
+	band := job.Cut.Band
+	if band[1] <= 0 {
+		band = defaultBand
+	}
+	s.target = opt.Target
+	if s.target <= 0 {
+		s.target = (band[0] + band[1]) / 2
+	}
+	if s.target > 0.5 {
+		return s, fmt.Errorf("banded: target engagement %.3g·D is beyond half the diameter", s.target)
+	}
+	s.phi = bandedPhiOf(s.target)
+	base := job.Feed()
+	s.feed = base * bandedChipThinning(s.phi)
+	s.entry = base
+	if m := job.Machine; m != nil {
+		cap := math.Min(m.MaxFeed.X, m.MaxFeed.Y)
+		if cap > 0 {
+			s.feed = math.Min(s.feed, cap)
+			s.entry = math.Min(s.entry, cap)
+		}
+	}
+	s.helixR = job.Cut.HelixDiameter / 2
+	if s.helixR <= 0 {
+		s.helixR = 0.5 * s.r // common practice, no source
+	}
+	ramp := job.Cut.RampAngle
+	if ramp <= 0 {
+		ramp = DefaultRampAngle
+	}
+	s.ramp = ramp * math.Pi / 180
+	s.minR = job.Cut.MinPathRadius
+	if s.minR <= 0 {
+		s.minR = 0.1 * d
+	}
+	s.h = opt.GridStep
+	if s.h <= 0 {
+		s.h = math.Max(0.05, math.Min(1, s.target*d/2.5))
+	}
+	s.safe = 1
+	return s, nil
+}
+
+// PlanBanded plans the banded strategy for every feature of the job: full
+// flute-length levels, a helix at the deepest point of closed domains or a
+// start in the air for open ones, fronts grown outward from there at the
+// target engagement, trochoidal clearing where the fronts cannot hold it,
+// links through cut material and a last pass along the walls. Unless
+// opts.NoVerify is set, the path is simulated and repaired where the band
+// is exceeded.
+func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
+	if job == nil {
+		return nil, errors.New("banded: no job")
+	}
+	st, err := bandedSetup(job, opts)
+	if err != nil {
+		return nil, err
+	}
+	tol := opts.Tolerance
+	if tol <= 0 {
+		tol = DefaultTolerance
+	}
+	top := job.Stock.Top
+	clear := top + job.Clearance
+	if job.Clearance <= 0 {
+		clear = top + 5
+	}
+	plan := &Plan{Job: job, Strategy: "banded"}
+	b := &builder{}
+	b.path.Start = geom.Point3{X: 0, Y: 0, Z: clear}
+	b.pos = b.path.Start
+	for fi, f := range job.Features {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		sum := FeatureSummary{Name: f.Name, Depth: f.Depth, First: len(b.path.Moves)}
+		b.path.Ops = append(b.path.Ops, geom.Operation{Name: f.Name, First: len(b.path.Moves)})
+		dom, open, err := bandedDomain(job, f, st, tol)
+		if err != nil {
+			return nil, fmt.Errorf("banded: feature %q: %w", f.Name, err)
+		}
+		sum.Open = open
+		inStock, _ := geom.Intersection(f.Region, job.Stock.Outline)
+		sum.Area = inStock.Area()
+		if len(dom) == 0 {
+			return nil, &JobError{Feature: f.Name, Msg: "too narrow for this tool"}
+		}
+		levels := bandedLevels(top, f.Depth, job.Tool.FluteLength)
+		sum.Levels = levels
+		levelTop := top
+		for li, z := range levels {
+			if opts.Progress != nil {
+				opts.Progress(li, len(levels))
+			}
+			for _, comp := range dom {
+				if err := bandedLevel(ctx, b, job, comp, z, levelTop, clear, st, &sum); err != nil {
+					return nil, fmt.Errorf("banded: feature %q level %d: %w", f.Name, li+1, err)
+				}
+			}
+			levelTop = z
+		}
+		// Retract between features.
+		b.feed(geom.Lift, p3(b.pos.XY(), clear), st.feed)
+		sum.End = len(b.path.Moves)
+		_ = fi
+		plan.Features = append(plan.Features, sum)
+	}
+	plan.Path = b.path
+	for i := range plan.Features {
+		plan.Features[i].Length = opLength(&plan.Path, plan.Features[i].First, plan.Features[i].End)
+	}
+	return plan, nil
+}
+
+// opLength returns the length of moves [first, end) of tp.
+func opLength(tp *geom.Toolpath, first, end int) float64 {
+	from := tp.Start
+	if first > 0 {
+		from = tp.Moves[first-1].To
+	}
+	l := 0.0
+	for _, m := range tp.Moves[first:end] {
+		l += geom.MoveLength(from, m)
+		from = m.To
+	}
+	return l
+}
+
+// bandedComp is one connected part of a feature's tool-centre domain.
+type bandedComp struct {
+	c    geom.Shape // the domain part (one region)
+	open bool       // part of it lies where the tool is in the air
+}
+
+// bandedDomain returns the tool-centre domain of a feature, split into its
+// connected parts, largest first: the free space (the region, with the air
+// around the stock where the region leaves it) eroded by the tool radius
+// plus the allowance.
+func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]bandedComp, bool, error) {
+	stock := job.Stock.Outline
+	free := f.Region
+	open := false
+	outside, err := geom.Difference(f.Region, stock)
+	if err != nil {
+		return nil, false, err
+	}
+	if outside.Area() > 1e-6 {
+		open = true
+		bb := stock.Bounds()
+		m := 4*st.r + 10
+		big := geom.Shape{{Outer: geom.RectRing(bb.Min.X-m, bb.Min.Y-m, bb.Max.X+m, bb.Max.Y+m)}}
+		air, err := geom.Difference(big, stock)
+		if err != nil {
+			return nil, false, err
+		}
+		// Air next to the open sides only: the region grown by a few tool
+		// diameters, so links may swing outside the stock there.
+		near, err := offset.Offset(f.Region, 4*st.r, tol)
+		if err != nil {
+			return nil, false, err
+		}
+		air, err = geom.Intersection(air, near)
+		if err != nil {
+			return nil, false, err
+		}
+		free, err = geom.Union(f.Region, air)
+		if err != nil {
+			return nil, false, err
+		}
+	}
+	c, err := offset.Offset(free, -(st.r + job.Cut.Allowance + tol), tol)
+	if err != nil {
+		return nil, false, err
+	}
+	var out []bandedComp
+	for _, reg := range c {
+		if reg.Area() < 1e-6 {
+			continue
+		}
+		out = append(out, bandedComp{c: geom.Shape{reg}})
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].c.Area() > out[j].c.Area() })
+	if open {
+		grown, err := offset.Offset(stock, st.r+0.01, tol)
+		if err != nil {
+			return nil, false, err
+		}
+		for i := range out {
+			d, err := geom.Difference(out[i].c, grown)
+			if err == nil && d.Area() > 1e-6 {
+				out[i].open = true
+			}
+		}
+	}
+	return out, open, nil
+}
+
+// bandedLevel plans one domain part at one level and appends its moves.
+func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
+	g := newBandedGrid(comp.c, st.h)
+	p := spiralParams{r: st.r, phi: st.phi, h: st.h}
+	straight := st.r * (1 - math.Cos(st.phi))
+	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
+	var start []spiralFront
+	var pos geom.Point
+	approachZ := levelTop + st.safe
+	if comp.open {
+		grown, err := offset.Offset(job.Stock.Outline, st.r+0.01, DefaultTolerance)
+		if err != nil {
+			return err
+		}
+		gm := newBandedGrid(grown, st.h)
+		// Same raster origin: newBandedGrid pads from the shape's bounds,
+		// so map by position.
+		for k := range g.in {
+			if !g.in[k] {
+				continue
+			}
+			q := g.pt(k)
+			if kk := gm.node(q); kk < 0 || !gm.in[kk] {
+				g.reached[k] = true
+			}
+		}
+		for _, ring := range grown.Rings() {
+			pts := append(append([]geom.Point(nil), ring...), ring[0])
+			pts = polyResample(pts, st.h, true)
+			start = append(start, spiralFront{pts: pts, closed: true, steps: spiralSteps(pts, true, p)})
+		}
+		// Start in the air at the swept node nearest the tool.
+		bk, bd := -1, math.Inf(1)
+		for k, r := range g.reached {
+			if r {
+				if d := g.pt(k).Dist(b.pos.XY()); d < bd {
+					bk, bd = k, d
+				}
+			}
+		}
+		if bk < 0 {
+			return errors.New("open domain without air")
+		}
+		pos = g.pt(bk)
+		b.rapid(p3(b.pos.XY(), clear))
+		b.rapid(p3(pos, clear))
+		b.rapid(p3(pos, z+st.safe))
+		b.feed(geom.Link, p3(pos, z), st.entry)
+	} else {
+		c, rad, _, err := offset.DeepestPointOfShape(comp.c, 0.01)
+		_ = err
+		hr := math.Min(st.helixR, rad-0.02)
+		if hr < 0.1*st.r {
+			return errors.New("no entry fits: the domain is narrower than a helix of a tenth of the tool radius")
+		}
+		g.markDisk(c, hr)
+		circ := geom.Circle(c, hr, max(24, int(2*math.Pi*hr/st.h)))
+		// Clockwise, material outside on the left.
+		pts := append(circ.Reversed(), circ.Reversed()[0])
+		start = []spiralFront{{pts: pts, closed: true, steps: spiralSteps(pts, true, p)}}
+		pos = pts[0]
+		b.rapid(p3(b.pos.XY(), clear))
+		b.rapid(p3(pos, clear))
+		b.rapid(p3(pos, approachZ))
+		bandedHelix(b, c, hr, approachZ, z, st)
+		sum.Entries++
+	}
+	pieces, _, err := spiralGrow(ctx, g, comp.c, start, pos, p)
+	if err != nil {
+		return err
+	}
+	bandedEmit(b, pieces, z, levelTop, clear, st, sum)
+	return nil
+}
+
+// bandedHelix descends from z0 to z1 on a clockwise helix of radius hr
+// about c at the ramp angle, starting and ending at c + (hr, 0)… wherever
+// the tool stands, then runs one full circle at z1.
+func bandedHelix(b *builder, c geom.Point, hr, z0, z1 float64, st bandedSettings) {
+	start := b.pos.XY()
+	per := 2 * math.Pi * hr * math.Tan(st.ramp)
+	turns := int(math.Ceil((z0-z1)/per - 1e-9))
+	if turns < 1 {
+		turns = 1
+	}
+	opp := c.Add(c.Sub(start))
+	for i := 0; i < turns; i++ {
+		zm := z0 - (z0-z1)*(float64(i)+0.5)/float64(turns)
+		ze := z0 - (z0-z1)*float64(i+1)/float64(turns)
+		b.arc(geom.Entry, p3(opp, zm), c, true, st.entry)
+		b.arc(geom.Entry, p3(start, ze), c, true, st.entry)
+	}
+	b.arc(geom.Entry, p3(opp, z1), c, true, st.entry)
+	b.arc(geom.Entry, p3(start, z1), c, true, st.entry)
+}
+
+// bandedEmit turns a level's pieces into moves at z: runs between lifts
+// are joined into one chain and smoothed to the minimum path radius;
+// boundary passes keep the corners of the walls.
+func bandedEmit(b *builder, pieces []bandedPiece, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) {
+	var pts []geom.Point
+	var kinds []geom.MoveKind
+	flush := func() {
+		if len(pts) > 1 {
+			for _, m := range smoothPath(pts, kinds, st.minR) {
+				m.To.Z = z
+				m.Feed = st.feed
+				b.add(m)
+			}
+		}
+		pts, kinds = pts[:0], kinds[:0]
+	}
+	push := func(q []geom.Point, k geom.MoveKind) {
+		for i, p := range q {
+			if i == 0 && len(pts) > 0 {
+				continue
+			}
+			pts = append(pts, p)
+			kinds = append(kinds, k)
+		}
+	}
+	for _, pc := range pieces {
+		switch pc.kind {
+		case pieceLift:
+			flush()
+			to := pc.pts[len(pc.pts)-1]
+			b.feed(geom.Lift, p3(b.pos.XY(), levelTop+st.safe), st.feed)
+			b.rapid(p3(b.pos.XY(), clear))
+			b.rapid(p3(to, clear))
+			b.rapid(p3(to, levelTop+st.safe))
+			b.feed(geom.Link, p3(to, z), st.entry)
+			sum.Lifts++
+		case pieceBoundary:
+			flush()
+			if len(pc.pts) > 0 && b.pos.XY().Dist(pc.pts[0]) > 1e-6 {
+				b.feed(geom.Link, p3(pc.pts[0], z), st.feed)
+			}
+			for _, q := range pc.pts[1:] {
+				b.feed(geom.Feed, p3(q, z), st.feed)
+			}
+			sum.Rings++
+		case pieceLink:
+			if len(pts) == 0 {
+				pts = append(pts, b.pos.XY())
+				kinds = append(kinds, geom.Link)
+			}
+			push(pc.pts, geom.Link)
+		default:
+			if len(pts) == 0 {
+				pts = append(pts, b.pos.XY())
+				kinds = append(kinds, geom.Feed)
+			}
+			push(pc.pts, geom.Feed)
+			sum.Rings++
+		}
+	}
+	flush()
+}

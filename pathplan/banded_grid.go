@@ -1,0 +1,408 @@
+package pathplan
+
+import (
+	"container/heap"
+	"math"
+	"sort"
+
+	"github.com/chipband/chipband/geom"
+)
+
+// bandedGrid is the node raster on which the banded strategy grows its
+// fronts: which nodes lie in the tool-centre domain, which lie in the
+// region the tool centre has already swept, and the scratch field of one
+// front propagation.
+type bandedGrid struct {
+	x0, y0, h float64
+	nx, ny    int
+	in        []bool    // node inside the tool-centre domain
+	reached   []bool    // node inside the swept (cleared) centre region
+	t         []float64 // distance to the previous front (scratch)
+	src       []int32   // segment of the previous front nearest to the node
+	touched   []int32   // nodes whose t was set in this propagation
+}
+
+// newBandedGrid rasterises the domain c with node spacing h.
+func newBandedGrid(c geom.Shape, h float64) *bandedGrid {
+	b := c.Bounds()
+	g := &bandedGrid{h: h, x0: b.Min.X - 2*h, y0: b.Min.Y - 2*h}
+	g.nx = int(math.Ceil(b.Width()/h)) + 5
+	g.ny = int(math.Ceil(b.Height()/h)) + 5
+	n := g.nx * g.ny
+	g.in = make([]bool, n)
+	g.reached = make([]bool, n)
+	g.t = make([]float64, n)
+	g.src = make([]int32, n)
+	for i := range g.t {
+		g.t[i] = math.Inf(1)
+		g.src[i] = -1
+	}
+	rings := c.Rings()
+	var xs []float64
+	for j := 0; j < g.ny; j++ {
+		y := g.y0 + float64(j)*h
+		xs = xs[:0]
+		for _, r := range rings {
+			for k := range r {
+				a, bb := r[k], r[(k+1)%len(r)]
+				if (a.Y <= y) != (bb.Y <= y) {
+					xs = append(xs, a.X+(y-a.Y)*(bb.X-a.X)/(bb.Y-a.Y))
+				}
+			}
+		}
+		sort.Float64s(xs)
+		for k := 0; k+1 < len(xs); k += 2 {
+			i0 := int(math.Ceil((xs[k] - g.x0) / h))
+			i1 := int(math.Floor((xs[k+1] - g.x0) / h))
+			for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
+				g.in[j*g.nx+i] = true
+			}
+		}
+	}
+	return g
+}
+
+func (g *bandedGrid) pt(k int) geom.Point {
+	return geom.Pt(g.x0+float64(k%g.nx)*g.h, g.y0+float64(k/g.nx)*g.h)
+}
+
+// node returns the index of the node nearest to p, or −1 outside the grid.
+func (g *bandedGrid) node(p geom.Point) int {
+	i := int(math.Round((p.X - g.x0) / g.h))
+	j := int(math.Round((p.Y - g.y0) / g.h))
+	if i < 0 || j < 0 || i >= g.nx || j >= g.ny {
+		return -1
+	}
+	return j*g.nx + i
+}
+
+// markDisk marks as reached every domain node within rad of c.
+func (g *bandedGrid) markDisk(c geom.Point, rad float64) {
+	i0 := int(math.Floor((c.X - rad - g.x0) / g.h))
+	i1 := int(math.Ceil((c.X + rad - g.x0) / g.h))
+	j0 := int(math.Floor((c.Y - rad - g.y0) / g.h))
+	j1 := int(math.Ceil((c.Y + rad - g.y0) / g.h))
+	for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
+		for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
+			k := j*g.nx + i
+			if g.in[k] && g.pt(k).Dist(c) <= rad {
+				g.reached[k] = true
+			}
+		}
+	}
+}
+
+// unreached counts domain nodes not yet swept.
+func (g *bandedGrid) unreached() int {
+	n := 0
+	for k, in := range g.in {
+		if in && !g.reached[k] {
+			n++
+		}
+	}
+	return n
+}
+
+// spiralSeg is one segment of a front with the local step at its ends.
+type spiralSeg struct {
+	a, b   geom.Point
+	sa, sb float64
+}
+
+// distParam returns the distance from p to the segment and the parameter
+// of the nearest point.
+func (s spiralSeg) distParam(p geom.Point) (float64, float64) {
+	ab := s.b.Sub(s.a)
+	l2 := ab.Dot(ab)
+	t := 0.0
+	if l2 > 0 {
+		t = math.Max(0, math.Min(1, p.Sub(s.a).Dot(ab)/l2))
+	}
+	return p.Dist(s.a.Add(ab.Scale(t))), t
+}
+
+type nodeHeap struct {
+	k []int32
+	d []float64
+}
+
+func (q *nodeHeap) Len() int           { return len(q.k) }
+func (q *nodeHeap) Less(i, j int) bool { return q.d[i] < q.d[j] }
+func (q *nodeHeap) Swap(i, j int) {
+	q.k[i], q.k[j] = q.k[j], q.k[i]
+	q.d[i], q.d[j] = q.d[j], q.d[i]
+}
+func (q *nodeHeap) Push(x any) {
+	e := x.([2]float64)
+	q.k = append(q.k, int32(e[0]))
+	q.d = append(q.d, e[1])
+}
+func (q *nodeHeap) Pop() any {
+	n := len(q.k) - 1
+	e := [2]float64{float64(q.k[n]), q.d[n]}
+	q.k, q.d = q.k[:n], q.d[:n]
+	return e
+}
+
+// propagate computes, for the unswept domain nodes within limit of the
+// front segs, the distance to the front and the nearest segment, by a
+// Dijkstra sweep that carries the nearest segment along (a vector distance
+// transform), so the distance stays Euclidean to the front and bends
+// around walls. It returns the value field v = distance − local step for
+// the touched nodes (negative: inside the next front).
+func (g *bandedGrid) propagate(segs []spiralSeg, limit float64) {
+	for _, k := range g.touched {
+		g.t[k] = math.Inf(1)
+		g.src[k] = -1
+	}
+	g.touched = g.touched[:0]
+	q := &nodeHeap{}
+	set := func(k int, d float64, s int) {
+		if g.src[k] < 0 {
+			g.touched = append(g.touched, int32(k))
+		}
+		g.t[k] = d
+		g.src[k] = int32(s)
+		heap.Push(q, [2]float64{float64(k), d})
+	}
+	pad := 1.5 * g.h
+	for si, s := range segs {
+		lo := geom.Pt(math.Min(s.a.X, s.b.X)-pad, math.Min(s.a.Y, s.b.Y)-pad)
+		hi := geom.Pt(math.Max(s.a.X, s.b.X)+pad, math.Max(s.a.Y, s.b.Y)+pad)
+		i0, i1 := int(math.Floor((lo.X-g.x0)/g.h)), int(math.Ceil((hi.X-g.x0)/g.h))
+		j0, j1 := int(math.Floor((lo.Y-g.y0)/g.h)), int(math.Ceil((hi.Y-g.y0)/g.h))
+		for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
+			for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
+				k := j*g.nx + i
+				if !g.in[k] || g.reached[k] {
+					continue
+				}
+				d, _ := s.distParam(g.pt(k))
+				if d <= pad && d < g.t[k] {
+					set(k, d, si)
+				}
+			}
+		}
+	}
+	for q.Len() > 0 {
+		e := heap.Pop(q).([2]float64)
+		k, d := int(e[0]), e[1]
+		if d > g.t[k] {
+			continue
+		}
+		i, j := k%g.nx, k/g.nx
+		s := segs[g.src[k]]
+		for dj := -1; dj <= 1; dj++ {
+			for di := -1; di <= 1; di++ {
+				ii, jj := i+di, j+dj
+				if (di == 0 && dj == 0) || ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny {
+					continue
+				}
+				kk := jj*g.nx + ii
+				if !g.in[kk] || g.reached[kk] {
+					continue
+				}
+				nd, _ := s.distParam(g.pt(kk))
+				// Keep the distance path-consistent: never shorter than
+				// walking there through this node allows (walls bend it).
+				nd = math.Max(nd, d)
+				if nd < g.t[kk] && nd <= limit {
+					set(kk, nd, int(g.src[k]))
+				}
+			}
+		}
+	}
+}
+
+// value returns the front field at node k: negative inside the swept
+// region or inside the next front, positive beyond it.
+func (g *bandedGrid) value(k int, segs []spiralSeg, far float64) float64 {
+	if g.reached[k] {
+		return -far
+	}
+	if g.src[k] < 0 {
+		return far
+	}
+	s := segs[g.src[k]]
+	_, tp := s.distParam(g.pt(k))
+	step := s.sa + (s.sb-s.sa)*tp
+	return g.t[k] - step
+}
+
+// contours extracts the zero set of the front field over the touched
+// nodes by marching squares, as oriented polylines with the material
+// (positive side) on the left. Cells with a node outside the domain are
+// skipped, so the polylines end at the walls.
+func (g *bandedGrid) contours(segs []spiralSeg, far float64) [][]geom.Point {
+	if len(g.touched) == 0 {
+		return nil
+	}
+	i0, j0, i1, j1 := g.nx, g.ny, -1, -1
+	for _, k := range g.touched {
+		i, j := int(k)%g.nx, int(k)/g.nx
+		i0, i1 = min(i0, i), max(i1, i)
+		j0, j1 = min(j0, j), max(j1, j)
+	}
+	i0, j0 = max(i0-2, 0), max(j0-2, 0)
+	i1, j1 = min(i1+2, g.nx-2), min(j1+2, g.ny-2)
+	type seg struct{ a, b int64 }
+	var sg []seg
+	pos := map[int64]geom.Point{}
+	edge := func(ka, kb int, va, vb float64, key int64) int64 {
+		if _, ok := pos[key]; !ok {
+			t := va / (va - vb)
+			pos[key] = g.pt(ka).Lerp(g.pt(kb), t)
+		}
+		return key
+	}
+	for j := j0; j <= j1; j++ {
+		for i := i0; i <= i1; i++ {
+			k00 := j*g.nx + i
+			k10, k01, k11 := k00+1, k00+g.nx, k00+g.nx+1
+			if !g.in[k00] || !g.in[k10] || !g.in[k01] || !g.in[k11] {
+				continue
+			}
+			v00, v10 := g.value(k00, segs, far), g.value(k10, segs, far)
+			v01, v11 := g.value(k01, segs, far), g.value(k11, segs, far)
+			c := 0
+			if v00 > 0 {
+				c |= 1
+			}
+			if v10 > 0 {
+				c |= 2
+			}
+			if v11 > 0 {
+				c |= 4
+			}
+			if v01 > 0 {
+				c |= 8
+			}
+			if c == 0 || c == 15 {
+				continue
+			}
+			// Edge keys: bottom, right, top, left.
+			kb := func() int64 { return edge(k00, k10, v00, v10, int64(k00)*2) }
+			kr := func() int64 { return edge(k10, k11, v10, v11, int64(k10)*2+1) }
+			kt := func() int64 { return edge(k01, k11, v01, v11, int64(k01)*2) }
+			kl := func() int64 { return edge(k00, k01, v00, v01, int64(k00)*2+1) }
+			// Orientation: positive (material) on the left of a→b, tested
+			// on the bilinear field of the cell.
+			base := g.pt(k00)
+			bil := func(p geom.Point) float64 {
+				u, w := (p.X-base.X)/g.h, (p.Y-base.Y)/g.h
+				return v00*(1-u)*(1-w) + v10*u*(1-w) + v01*(1-u)*w + v11*u*w
+			}
+			add := func(a, b int64) {
+				pa, pb := pos[a], pos[b]
+				d := pb.Sub(pa)
+				if d.Len() == 0 {
+					return
+				}
+				m := pa.Lerp(pb, 0.5).Add(d.Unit().Perp().Scale(0.05 * g.h))
+				if bil(m) < 0 {
+					a, b = b, a
+				}
+				sg = append(sg, seg{a, b})
+			}
+			switch c {
+			case 1:
+				add(kl(), kb())
+			case 2:
+				add(kb(), kr())
+			case 3:
+				add(kl(), kr())
+			case 4:
+				add(kr(), kt())
+			case 5:
+				if (v00+v10+v01+v11)/4 > 0 {
+					add(kl(), kt())
+					add(kr(), kb())
+				} else {
+					add(kl(), kb())
+					add(kr(), kt())
+				}
+			case 6:
+				add(kb(), kt())
+			case 7:
+				add(kl(), kt())
+			case 8:
+				add(kt(), kl())
+			case 9:
+				add(kt(), kb())
+			case 10:
+				if (v00+v10+v01+v11)/4 > 0 {
+					add(kb(), kr())
+					add(kt(), kl())
+				} else {
+					add(kb(), kl())
+					add(kt(), kr())
+				}
+			case 11:
+				add(kt(), kr())
+			case 12:
+				add(kr(), kl())
+			case 13:
+				add(kr(), kb())
+			case 14:
+				add(kb(), kl())
+			}
+		}
+	}
+	// Chain by shared edge points.
+	next := make(map[int64]int, len(sg))
+	ends := make(map[int64]bool, len(sg))
+	for i, s := range sg {
+		next[s.a] = i
+		ends[s.b] = true
+	}
+	used := make([]bool, len(sg))
+	var out [][]geom.Point
+	walk := func(start int) []geom.Point {
+		pts := []geom.Point{pos[sg[start].a]}
+		i := start
+		for !used[i] {
+			used[i] = true
+			pts = append(pts, pos[sg[i].b])
+			ni, ok := next[sg[i].b]
+			if !ok {
+				break
+			}
+			i = ni
+		}
+		return pts
+	}
+	// Open chains first (a start that is no segment's end), then loops;
+	// in index order, so the result is deterministic.
+	for i, s := range sg {
+		if !used[i] && !ends[s.a] {
+			out = append(out, walk(i))
+		}
+	}
+	for i := range sg {
+		if !used[i] {
+			pts := walk(i)
+			if len(pts) > 2 && pts[0].Dist(pts[len(pts)-1]) < 1e-9 {
+				pts = pts[:len(pts)-1]
+				pts = append(pts, pts[0]) // closed: first point repeated
+			}
+			out = append(out, pts)
+		}
+	}
+	return out
+}
+
+// sweepReached marks as reached the touched nodes inside the new front.
+func (g *bandedGrid) sweepReached(segs []spiralSeg) {
+	for _, k := range g.touched {
+		if g.value(int(k), segs, 1) <= 0 {
+			g.reached[k] = true
+		}
+	}
+}
+
+// clearAt reports whether the tool centre may stand at p during a link:
+// the nearest node is in the domain and swept.
+func (g *bandedGrid) clearAt(p geom.Point) bool {
+	k := g.node(p)
+	return k >= 0 && g.in[k] && g.reached[k]
+}

@@ -1,0 +1,219 @@
+package pathplan
+
+import "math"
+
+// This file holds the engagement geometry the banded strategy is built on.
+// Every relation is derived from the circle–circle intersection of the
+// cutter with the envelope of the previous pass; none is fitted.
+
+// bandedPhiOf returns the engagement angle φ (radians) of a straight side
+// cut at radial fraction aeD = ae/D: φ = arccos(1 − ae/r).
+func bandedPhiOf(aeD float64) float64 {
+	c := 1 - 2*aeD
+	return math.Acos(math.Max(-1, math.Min(1, c)))
+}
+
+// bandedAeOf returns the radial fraction ae/D equivalent to engagement angle
+// φ: ae = r·(1 − cos φ), the convention engage reports.
+func bandedAeOf(phi float64) float64 { return (1 - math.Cos(phi)) / 2 }
+
+// spiralStep returns the local step from a previous front to the next one
+// that makes the engagement angle equal phi, for a cutter of radius r, when
+// the previous front has radius of curvature rp at that vertex. convex is
+// set when the centre of curvature lies on the cleared side (material
+// outside the curve, as in an outward spiral); otherwise the centre lies in
+// the material. rp = +Inf is a straight front, where the step is the
+// straight-cut width r·(1 − cos φ).
+//
+// Derivation (constant-engagement offsetting, after the method of Int J Adv
+// Manuf Technol (2019), doi:10.1007/s00170-019-03834-8): the previous pass
+// leaves an envelope circle of radius rp ± r about the centre of curvature
+// O; the tool of radius r sits at distance ρ from O on the next front. The
+// tool circle leaves the envelope at the point whose angle θ from the
+// normal satisfies the law of cosines, and the engaged front-half arc is θ.
+//
+//	convex:  (rp + r)² = ρ² + r² + 2ρr·cos φ, ρ = rp + s
+//	concave: (rp − r)² = ρ² + r² − 2ρr·cos φ, ρ = rp − s
+func spiralStep(r, phi, rp float64, convex bool) float64 {
+	c := math.Cos(phi)
+	straight := r * (1 - c)
+	if math.IsInf(rp, 0) || rp > 1e4*r {
+		return straight
+	}
+	if convex {
+		// ρ² + 2rcρ + r² − (rp + r)² = 0, positive root.
+		rho := -r*c + math.Sqrt(r*r*c*c-r*r+(rp+r)*(rp+r))
+		return math.Max(0, rho-rp)
+	}
+	disc := r*r*c*c - r*r + (rp-r)*(rp-r)
+	if disc < 0 || rp <= r {
+		// The concave front closes before the engagement reaches φ: the
+		// whole arc can be taken.
+		return math.Max(straight, rp)
+	}
+	rho := r*c + math.Sqrt(disc)
+	return math.Max(0, rp-rho)
+}
+
+// spiralPhi returns the engagement angle (radians) of a tool of radius r on
+// a front of radius rho whose previous front is concentric at distance s,
+// the inverse of spiralStep. convex as in spiralStep.
+func spiralPhi(r, rho, s float64, convex bool) float64 {
+	var c float64
+	if convex {
+		rp := rho - s
+		c = ((rp+r)*(rp+r) - rho*rho - r*r) / (2 * rho * r)
+	} else {
+		rp := rho + s
+		c = (rho*rho + r*r - (rp-r)*(rp-r)) / (2 * rho * r)
+	}
+	return math.Acos(math.Max(-1, math.Min(1, c)))
+}
+
+// bandedChipThinning returns the factor by which the programmed feed per
+// tooth exceeds the chip load so that the largest chip thickness equals the
+// chip load at engagement angle phi: 1/sin φ for φ < 90° (h_max = fz·sin φ,
+// Altintas 2012, ch. 2, from memory), 1 beyond.
+func bandedChipThinning(phi float64) float64 {
+	if phi >= math.Pi/2 || phi <= 0 {
+		return 1
+	}
+	return 1 / math.Sin(phi)
+}
+
+// bandedLevels returns the floor Z of each level when a depth is cut at
+// the full usable flute length: the fewest equal levels no deeper than
+// flute each. top is the stock top; the last level lands on top − depth.
+func bandedLevels(top, depth, flute float64) []float64 {
+	if depth <= 0 {
+		return nil
+	}
+	if flute <= 0 {
+		flute = depth
+	}
+	n := int(math.Ceil(depth/flute - 1e-9))
+	if n < 1 {
+		n = 1
+	}
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = top - depth*float64(i+1)/float64(n)
+	}
+	out[n-1] = top - depth
+	return out
+}
+
+// trochoidPoint returns the tool centre of a trochoid along the x axis with
+// loop radius rt and pitch p per loop at loop angle th (radians), counted
+// from the front of the loop, turning counter-clockwise:
+// x = p·th/2π + rt·cos th, y = rt·sin th.
+func trochoidPoint(rt, p, th float64) (x, y float64) {
+	return p*th/(2*math.Pi) + rt*math.Cos(th), rt * math.Sin(th)
+}
+
+// trochoidMaxPhi returns the largest engagement angle (radians) a cutter of
+// radius r meets along one loop of a steady trochoid of loop radius rt and
+// pitch p in a channel whose tool centre may wander ±rt about the spine.
+// It is computed, not looked up: the material is the strip |y| ≤ rt + r,
+// less what the tool swept along the previous loops; at every sampled
+// position of the loop the front half of the tool circle is examined
+// (after Otkur & Lazoglu 2007, who analyse the engagement of trochoidal
+// loops the same way, from memory).
+func trochoidMaxPhi(r, rt, p float64) float64 {
+	const nTh, nA = 72, 90
+	// Previous loops that can still reach the current one.
+	back := int(math.Ceil(2*(rt+r)/math.Max(p, 1e-6))) + 1
+	if back > 8 {
+		back = 8
+	}
+	// Swept centre positions of the previous loops, one polyline per loop.
+	prev := make([][][2]float64, back)
+	for k := -back; k < 0; k++ {
+		var loop [][2]float64
+		for i := 0; i <= nTh; i++ {
+			th := 2 * math.Pi * (float64(k) + float64(i)/nTh)
+			x, y := trochoidPoint(rt, p, th)
+			loop = append(loop, [2]float64{x, y})
+		}
+		prev[k+back] = loop
+	}
+	reach := rt + 2*r + p
+	covered := func(qx, qy float64) bool {
+		for k, loop := range prev {
+			xc := p * float64(k-back)
+			if math.Abs(qx-xc) > reach {
+				continue
+			}
+			if coveredBy(loop, qx, qy, r) {
+				return true
+			}
+		}
+		return false
+	}
+	best := 0.0
+	for i := 0; i < nTh; i++ {
+		th := 2 * math.Pi * float64(i) / nTh
+		cx, cy := trochoidPoint(rt, p, th)
+		ux, uy := p/(2*math.Pi)-rt*math.Sin(th), rt*math.Cos(th)
+		l := math.Hypot(ux, uy)
+		if l == 0 {
+			continue
+		}
+		ux, uy = ux/l, uy/l
+		n := 0
+		for j := 0; j <= nA; j++ {
+			// Front half: angles −90°…+90° about the feed direction.
+			a := -math.Pi/2 + math.Pi*float64(j)/nA
+			ca, sa := math.Cos(a), math.Sin(a)
+			qx := cx + r*(ux*ca-uy*sa)
+			qy := cy + r*(ux*sa+uy*ca)
+			if math.Abs(qy) > rt+r || covered(qx, qy) {
+				continue
+			}
+			n++
+		}
+		phi := math.Pi * float64(n) / float64(nA+1)
+		best = math.Max(best, phi)
+	}
+	return best
+}
+
+// trochoidPitch returns the largest pitch whose loops keep the engagement
+// angle at or below phiMax (bisection on trochoidMaxPhi, which grows with
+// the pitch), and never more than the cutter radius.
+func trochoidPitch(r, rt, phiMax float64) float64 {
+	lo, hi := 0.01*r, r
+	if trochoidMaxPhi(r, rt, hi) <= phiMax {
+		return hi
+	}
+	if trochoidMaxPhi(r, rt, lo) > phiMax {
+		return lo
+	}
+	for i := 0; i < 12; i++ {
+		m := (lo + hi) / 2
+		if trochoidMaxPhi(r, rt, m) <= phiMax {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return lo
+}
+
+// coveredBy reports whether (qx, qy) lies within r of the polyline pts.
+func coveredBy(pts [][2]float64, qx, qy, r float64) bool {
+	for i := 0; i+1 < len(pts); i++ {
+		ax, ay := pts[i][0], pts[i][1]
+		dx, dy := pts[i+1][0]-ax, pts[i+1][1]-ay
+		l2 := dx*dx + dy*dy
+		t := 0.0
+		if l2 > 0 {
+			t = math.Max(0, math.Min(1, ((qx-ax)*dx+(qy-ay)*dy)/l2))
+		}
+		ex, ey := ax+t*dx-qx, ay+t*dy-qy
+		if ex*ex+ey*ey <= r*r*(1-1e-9) {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,468 @@
+package pathplan
+
+import (
+	"context"
+	"math"
+
+	"github.com/chipband/chipband/geom"
+)
+
+// bandedPieceKind tells what a piece of a banded level does.
+type bandedPieceKind uint8
+
+const (
+	pieceCut      bandedPieceKind = iota // a front pass in material
+	pieceLink                            // a move at depth through swept material
+	pieceBoundary                        // the last pass along the domain boundary
+	pieceLift                            // leave the level and come back at the piece's end
+	pieceTrochoid                        // trochoidal loops in a channel
+)
+
+// bandedPiece is one polyline of a level's path, in cutting order.
+type bandedPiece struct {
+	kind bandedPieceKind
+	pts  []geom.Point
+}
+
+// spiralParams are the inputs of one front growth.
+type spiralParams struct {
+	r       float64 // tool radius
+	phi     float64 // target engagement angle, radians
+	h       float64 // grid node spacing
+	minStep float64 // smallest local step, mm
+	maxStep float64 // largest local step, mm
+}
+
+// spiralFront is one extracted front polyline with its local steps.
+type spiralFront struct {
+	pts    []geom.Point
+	steps  []float64
+	closed bool
+}
+
+// spiralGrow grows fronts from the swept region already marked on g (the
+// helix disk, or the air around open stock), whose boundary is start, and
+// returns the level's pieces in cutting order, links included, ending with
+// the boundary pass along the domain c. pos is where the tool stands.
+func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiralFront, pos geom.Point, p spiralParams) ([]bandedPiece, geom.Point, error) {
+	var out []bandedPiece
+	prev := start
+	lastClosed := false
+	for iter := 0; iter < 100000; iter++ {
+		if err := ctx.Err(); err != nil {
+			return nil, pos, err
+		}
+		var segs []spiralSeg
+		for _, f := range prev {
+			for i := 0; i+1 < len(f.pts); i++ {
+				segs = append(segs, spiralSeg{f.pts[i], f.pts[i+1], f.steps[i], f.steps[i+1]})
+			}
+		}
+		if len(segs) == 0 {
+			break
+		}
+		g.propagate(segs, p.maxStep+3*p.h)
+		raw := g.contours(segs, p.maxStep+3*p.h)
+		var fronts []spiralFront
+		for _, pts := range raw {
+			f := spiralPrepare(pts, c, p)
+			if f.pts != nil {
+				fronts = append(fronts, f)
+			}
+		}
+		if len(fronts) == 0 {
+			g.sweepReached(segs)
+			if len(g.touched) == 0 || g.unreached() == 0 {
+				break
+			}
+			// Nothing long enough to cut: take what was reached and stop
+			// when the sweep no longer moves.
+			before := g.unreached()
+			if before == 0 {
+				break
+			}
+			break
+		}
+		// Sequence the fronts: nearest first, climb direction fixed.
+		done := make([]bool, len(fronts))
+		for range fronts {
+			bi, bd, bk := -1, math.Inf(1), 0
+			for i, f := range fronts {
+				if done[i] {
+					continue
+				}
+				if f.closed {
+					for k, q := range f.pts[:len(f.pts)-1] {
+						if d := q.Dist(pos); d < bd {
+							bi, bd, bk = i, d, k
+						}
+					}
+				} else if d := f.pts[0].Dist(pos); d < bd {
+					bi, bd, bk = i, d, 0
+				}
+			}
+			done[bi] = true
+			f := fronts[bi]
+			pts := f.pts
+			if f.closed {
+				pts = spiralRotate(pts, bk)
+			}
+			if lastClosed && f.closed && bd <= 2*p.maxStep+2*p.h {
+				// Spiral transition: bend the start of the new loop onto
+				// the end of the last one so the machine does not stop.
+				pts = spiralBlend(pts, pos, math.Min(6*p.r, 0.3*polyLen(pts)))
+			} else if bd > 1e-6 {
+				out = append(out, spiralLink(g, pos, pts[0], p)...)
+			}
+			out = append(out, bandedPiece{kind: pieceCut, pts: pts})
+			pos = pts[len(pts)-1]
+			lastClosed = f.closed
+		}
+		g.sweepReached(segs)
+		prev = fronts
+	}
+	// Last pass along the boundary of the domain, climb: outer rings
+	// clockwise, holes counter-clockwise (material on the left).
+	for _, reg := range c {
+		for _, ring := range reg.Rings() {
+			rr := ring.Reversed()
+			bk, bd := 0, math.Inf(1)
+			for k, q := range rr {
+				if d := q.Dist(pos); d < bd {
+					bk, bd = k, d
+				}
+			}
+			pts := make([]geom.Point, 0, len(rr)+1)
+			for i := range rr {
+				pts = append(pts, rr[(bk+i)%len(rr)])
+			}
+			pts = append(pts, pts[0])
+			if bd > 1e-6 {
+				out = append(out, spiralLink(g, pos, pts[0], p)...)
+			}
+			out = append(out, bandedPiece{kind: pieceBoundary, pts: pts})
+			pos = pts[len(pts)-1]
+		}
+	}
+	return out, pos, nil
+}
+
+// spiralPrepare smooths a raw contour, extends its open ends to the walls
+// of c, and sets the local step of every vertex from its curvature. Pieces
+// shorter than a few nodes are dropped (nil result).
+func spiralPrepare(raw []geom.Point, c geom.Shape, p spiralParams) spiralFront {
+	closed := len(raw) > 3 && raw[0].Dist(raw[len(raw)-1]) < 1e-9
+	pts := polyResample(raw, p.h, closed)
+	if polyLen(pts) < 3*p.h || len(pts) < 3 {
+		return spiralFront{}
+	}
+	pts = polySmooth(pts, closed, 4)
+	if !closed {
+		pts = spiralExtend(pts, c, p.h, true)
+		pts = spiralExtend(pts, c, p.h, false)
+	}
+	f := spiralFront{pts: pts, closed: closed}
+	f.steps = spiralSteps(pts, closed, p)
+	return f
+}
+
+// spiralSteps returns the local step at each vertex: the curvature is the
+// turn of the tangent over a window of about the tool radius, and the step
+// follows spiralStep for it.
+func spiralSteps(pts []geom.Point, closed bool, p spiralParams) []float64 {
+	n := len(pts)
+	steps := make([]float64, n)
+	cum := make([]float64, n)
+	for i := 1; i < n; i++ {
+		cum[i] = cum[i-1] + pts[i].Dist(pts[i-1])
+	}
+	total := cum[n-1]
+	w := math.Max(0.5*p.r, 3*p.h)
+	at := func(s float64) geom.Point { return polyAt(pts, cum, s, closed, total) }
+	for i := 0; i < n; i++ {
+		s0, s1 := cum[i]-w, cum[i]+w
+		if !closed {
+			s0, s1 = math.Max(0, s0), math.Min(total, s1)
+		}
+		if s1-s0 < 2*p.h {
+			steps[i] = p.r * (1 - math.Cos(p.phi))
+			continue
+		}
+		a, m, b := at(s0), at(cum[i]), at(s1)
+		t1, t2 := m.Sub(a).Unit(), b.Sub(m).Unit()
+		turn := math.Atan2(t1.Cross(t2), t1.Dot(t2))
+		rad := math.Inf(1)
+		if math.Abs(turn) > 1e-9 {
+			rad = (s1 - s0) / math.Abs(turn)
+		}
+		// Material on the left: a right turn bends toward the swept side.
+		steps[i] = spiralStep(p.r, p.phi, rad, turn < 0)
+		steps[i] = math.Max(p.minStep, math.Min(p.maxStep, steps[i]))
+	}
+	return steps
+}
+
+// spiralExtend lengthens an open front at its start (or end) along its
+// tangent up to the wall of c, so the pass reaches the boundary.
+func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geom.Point {
+	var e, prev geom.Point
+	if atStart {
+		e, prev = pts[0], pts[1]
+	} else {
+		e, prev = pts[len(pts)-1], pts[len(pts)-2]
+	}
+	d := e.Sub(prev).Unit()
+	if !c.Contains(e) {
+		return pts
+	}
+	last := e
+	for k := 1; k <= 24; k++ {
+		q := e.Add(d.Scale(float64(k) * h / 8))
+		if !c.Contains(q) || c.DistanceToBoundary(q) < 1e-3 {
+			break
+		}
+		last = q
+	}
+	if last == e {
+		return pts
+	}
+	if atStart {
+		return append([]geom.Point{last}, pts...)
+	}
+	return append(pts, last)
+}
+
+// spiralRotate returns a closed polyline (first point repeated at the end)
+// starting at vertex k.
+func spiralRotate(pts []geom.Point, k int) []geom.Point {
+	n := len(pts) - 1
+	out := make([]geom.Point, 0, n+1)
+	for i := 0; i < n; i++ {
+		out = append(out, pts[(k+i)%n])
+	}
+	return append(out, out[0])
+}
+
+// spiralBlend bends the first length l of pts so that it starts at from,
+// the displacement fading linearly to zero: a spiral transition from one
+// loop onto the next.
+func spiralBlend(pts []geom.Point, from geom.Point, l float64) []geom.Point {
+	off := from.Sub(pts[0])
+	out := append([]geom.Point(nil), pts...)
+	s := 0.0
+	for i := range out {
+		if i > 0 {
+			s += pts[i].Dist(pts[i-1])
+		}
+		if s >= l || i == len(out)-1 {
+			break
+		}
+		out[i] = pts[i].Add(off.Scale(1 - s/l))
+	}
+	return out
+}
+
+// spiralLink returns the way from a to b at depth through swept material:
+// straight when every point of the segment is swept (near its ends the
+// fronts being cut are allowed), else a path over swept nodes, else a lift.
+func spiralLink(g *bandedGrid, a, b geom.Point, p spiralParams) []bandedPiece {
+	if linkClear(g, a, b, p.maxStep+2*p.h) {
+		return []bandedPiece{{kind: pieceLink, pts: []geom.Point{a, b}}}
+	}
+	if path := gridPath(g, a, b, p.maxStep+2*p.h); path != nil {
+		return []bandedPiece{{kind: pieceLink, pts: path}}
+	}
+	return []bandedPiece{{kind: pieceLift, pts: []geom.Point{a, b}}}
+}
+
+// linkClear reports whether the segment ab runs through swept nodes, ends
+// excepted within slack.
+func linkClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
+	l := a.Dist(b)
+	n := int(math.Ceil(l/(0.5*g.h))) + 1
+	for i := 0; i <= n; i++ {
+		q := a.Lerp(b, float64(i)/float64(n))
+		if q.Dist(a) <= slack || q.Dist(b) <= slack {
+			k := g.node(q)
+			if k < 0 || !g.in[k] {
+				return false
+			}
+			continue
+		}
+		if !g.clearAt(q) {
+			return false
+		}
+	}
+	return true
+}
+
+// gridPath finds a path of swept nodes from a to b (breadth-first, eight
+// neighbours) and shortens it to the fewest clear straight legs.
+func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
+	ka, kb := g.node(a), g.node(b)
+	if ka < 0 || kb < 0 {
+		return nil
+	}
+	ok := func(k int) bool {
+		if !g.in[k] {
+			return false
+		}
+		q := g.pt(k)
+		return g.reached[k] || q.Dist(a) <= slack || q.Dist(b) <= slack
+	}
+	if !ok(ka) || !ok(kb) {
+		return nil
+	}
+	prev := map[int]int{ka: -1}
+	queue := []int{ka}
+	for len(queue) > 0 && len(prev) < 4_000_000 {
+		k := queue[0]
+		queue = queue[1:]
+		if k == kb {
+			break
+		}
+		i, j := k%g.nx, k/g.nx
+		for dj := -1; dj <= 1; dj++ {
+			for di := -1; di <= 1; di++ {
+				ii, jj := i+di, j+dj
+				if ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny {
+					continue
+				}
+				kk := jj*g.nx + ii
+				if _, seen := prev[kk]; seen || !ok(kk) {
+					continue
+				}
+				prev[kk] = k
+				queue = append(queue, kk)
+			}
+		}
+	}
+	if _, found := prev[kb]; !found {
+		return nil
+	}
+	var nodes []geom.Point
+	for k := kb; k >= 0; k = prev[k] {
+		nodes = append(nodes, g.pt(k))
+	}
+	for i, j := 0, len(nodes)-1; i < j; i, j = i+1, j-1 {
+		nodes[i], nodes[j] = nodes[j], nodes[i]
+	}
+	nodes[0], nodes[len(nodes)-1] = a, b
+	// String pulling.
+	out := []geom.Point{a}
+	i := 0
+	for i < len(nodes)-1 {
+		j := len(nodes) - 1
+		for j > i+1 && !linkClear(g, nodes[i], nodes[j], slack) {
+			j--
+		}
+		out = append(out, nodes[j])
+		i = j
+	}
+	return out
+}
+
+// polyLen returns the length of a polyline.
+func polyLen(pts []geom.Point) float64 {
+	l := 0.0
+	for i := 1; i < len(pts); i++ {
+		l += pts[i].Dist(pts[i-1])
+	}
+	return l
+}
+
+// polyAt returns the point at arc length s of a polyline with cumulative
+// lengths cum, wrapping when closed.
+func polyAt(pts []geom.Point, cum []float64, s float64, closed bool, total float64) geom.Point {
+	if closed && total > 0 {
+		s = math.Mod(s, total)
+		if s < 0 {
+			s += total
+		}
+	}
+	if s <= 0 {
+		return pts[0]
+	}
+	if s >= total {
+		return pts[len(pts)-1]
+	}
+	lo, hi := 0, len(cum)-1
+	for hi-lo > 1 {
+		m := (lo + hi) / 2
+		if cum[m] <= s {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	seg := cum[hi] - cum[lo]
+	if seg <= 0 {
+		return pts[lo]
+	}
+	return pts[lo].Lerp(pts[hi], (s-cum[lo])/seg)
+}
+
+// polyResample returns the polyline with points about every step apart
+// (ends kept; a closed polyline keeps its repeated end point).
+func polyResample(pts []geom.Point, step float64, closed bool) []geom.Point {
+	if len(pts) < 2 {
+		return pts
+	}
+	total := polyLen(pts)
+	n := int(math.Ceil(total / step))
+	if n < 2 {
+		n = 2
+	}
+	cum := make([]float64, len(pts))
+	for i := 1; i < len(pts); i++ {
+		cum[i] = cum[i-1] + pts[i].Dist(pts[i-1])
+	}
+	out := make([]geom.Point, 0, n+1)
+	for i := 0; i <= n; i++ {
+		out = append(out, polyAt(pts, cum, total*float64(i)/float64(n), false, total))
+	}
+	if closed {
+		out[n] = out[0]
+	}
+	return out
+}
+
+// polySmooth applies Taubin's λ|μ smoothing (no shrinking) to a polyline;
+// the ends of an open one stay fixed.
+func polySmooth(pts []geom.Point, closed bool, iters int) []geom.Point {
+	n := len(pts)
+	if n < 4 {
+		return pts
+	}
+	cur := append([]geom.Point(nil), pts...)
+	tmp := make([]geom.Point, n)
+	m := n
+	if closed {
+		m = n - 1
+	}
+	pass := func(f float64) {
+		copy(tmp, cur)
+		for i := 0; i < m; i++ {
+			var a, b geom.Point
+			switch {
+			case closed:
+				a, b = cur[(i-1+m)%m], cur[(i+1)%m]
+			case i == 0 || i == n-1:
+				continue
+			default:
+				a, b = cur[i-1], cur[i+1]
+			}
+			mid := a.Add(b).Scale(0.5)
+			tmp[i] = cur[i].Add(mid.Sub(cur[i]).Scale(f))
+		}
+		if closed {
+			tmp[n-1] = tmp[0]
+		}
+		cur, tmp = tmp, cur
+	}
+	for k := 0; k < iters; k++ {
+		pass(0.5)
+		pass(-0.53)
+	}
+	return cur
+}
