@@ -164,6 +164,9 @@ func (rd *svgReader) read(r io.Reader) error {
 				continue
 			}
 			name := t.Name.Local
+			if root && len(stack) == 0 {
+				return fmt.Errorf("line %d: element %q after the end of the root svg element", line, name)
+			}
 			if !root {
 				if name != "svg" {
 					return fmt.Errorf("root element is %q, want svg", name)

@@ -418,11 +418,12 @@ func parsePathData(d string, fl *flattener) ([]subpath, error) {
 		}
 		at := sc.i
 		c := d[sc.i]
+		if cmd == 0 && upper(c) != 'M' {
+			return subs, fmt.Errorf("at offset %d: path data must begin with a moveto command (M or m), found %q", at, c)
+		}
 		if argCount(upper(c)) >= 0 {
 			cmd = c
 			sc.i++
-		} else if cmd == 0 {
-			return subs, fmt.Errorf("at offset %d: path data must begin with a moveto command (M or m), found %q", at, c)
 		} else if !sc.startsNumber() {
 			return subs, fmt.Errorf("at offset %d: unexpected %q", at, c)
 		} else if upper(cmd) == 'Z' {
