@@ -215,3 +215,14 @@ func TestSetOps(t *testing.T) {
 		t.Fatalf("got %v", err)
 	}
 }
+
+// The set operations turn a panic of the overlay into an error (last
+// resort; no panicking input is known).
+func TestSetOpRecovers(t *testing.T) {
+	boom := func(a, b sf.Geometry) (sf.Geometry, error) { panic("degenerate") }
+	a := Shape{{Outer: RectRing(0, 0, 1, 1)}}
+	_, err := setOp("union", boom, a, a)
+	if err == nil || !strings.Contains(err.Error(), "union: overlay failed: degenerate") {
+		t.Fatalf("got %v", err)
+	}
+}

@@ -232,3 +232,25 @@ func TestClean(t *testing.T) {
 		t.Fatal("orientation not normalised")
 	}
 }
+
+// Facts of plane geometry: two closed segments meet when they cross, when
+// an end of one lies on the other, or when they overlap on one line.
+func TestSegmentsMeet(t *testing.T) {
+	cases := []struct {
+		a, b, c, d Point
+		want       bool
+	}{
+		{Pt(0, 0), Pt(2, 2), Pt(0, 2), Pt(2, 0), true},  // cross at (1, 1)
+		{Pt(0, 0), Pt(2, 0), Pt(1, 0), Pt(1, 5), true},  // T junction
+		{Pt(0, 0), Pt(2, 0), Pt(2, 0), Pt(3, 1), true},  // shared end
+		{Pt(0, 0), Pt(2, 0), Pt(1, 0), Pt(3, 0), true},  // collinear overlap
+		{Pt(0, 0), Pt(2, 0), Pt(3, 0), Pt(4, 0), false}, // collinear apart
+		{Pt(0, 0), Pt(2, 0), Pt(0, 1), Pt(2, 1), false}, // parallel
+		{Pt(0, 0), Pt(2, 0), Pt(1, 1e-300), Pt(1, 1), false},
+	}
+	for i, c := range cases {
+		if got := SegmentsMeet(c.a, c.b, c.c, c.d); got != c.want {
+			t.Errorf("case %d: got %v, want %v", i, got, c.want)
+		}
+	}
+}
