@@ -63,9 +63,18 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 		span, steps = 2*math.Pi, 2*engageSamples
 	}
 	d := span / float64(steps)
+	// Material needs the field below −tol: a circle running exactly along
+	// an earlier cut of the same radius (a second descent down a hole, a
+	// retraced pass) must read as tangent, not engaged, despite the
+	// bilinear error of a curved distance field, about cell²/(8·radius).
+	tol := float32(1e-4)
+	if full {
+		tol = float32(m.cell * m.cell / (2 * r))
+	}
 	eval := func(psi float64) (float32, float32) {
 		s, c := math.Sincos(psi)
-		return m.field(at.X+r*(s*u.X+c*n.X), at.Y+r*(s*u.Y+c*n.Y), zt)
+		v, h := m.field(at.X+r*(s*u.X+c*n.X), at.Y+r*(s*u.Y+c*n.Y), zt)
+		return v + tol, h
 	}
 	// Circle points on the fixed grid come from the table of the material.
 	ux, uy := r*u.X, r*u.Y
@@ -73,7 +82,8 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 	tab := &m.circle
 	evalK := func(k int) (float32, float32) {
 		sc := tab[k%(2*engageSamples)]
-		return m.field(at.X+sc[0]*ux+sc[1]*nx, at.Y+sc[0]*uy+sc[1]*ny, zt)
+		v, h := m.field(at.X+sc[0]*ux+sc[1]*nx, at.Y+sc[0]*uy+sc[1]*ny, zt)
+		return v + tol, h
 	}
 	// The field is close to a distance (1-Lipschitz), so no boundary lies
 	// within |v| of a sample: grid points closer than that are skipped.
@@ -126,7 +136,29 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 		hmax = max(hmax, ph)
 	}
 	v0 := pv
-	start := 0.0 // start of the current material arc, when pv < 0
+	start := 0.0 // start of the current material arc, when the field is negative
+	// scan handles the interval [a, b] with field values va and vb: a sign
+	// change ends or starts an arc; two non-negative ends closer to zero
+	// than the chord allows (the field is 1-Lipschitz) may hide a thin
+	// sliver of material, so the interval is split a few times.
+	var scan func(a, b float64, va, vb float32, depth int)
+	scan = func(a, b float64, va, vb float32, depth int) {
+		switch {
+		case va < 0 && vb < 0:
+		case va < 0:
+			addArc(start, root(a, b, va, vb))
+		case vb < 0:
+			start = root(a, b, va, vb)
+		case depth > 0 && float64(va+vb) < r*(b-a):
+			mid := (a + b) / 2
+			vm, hm := eval(mid)
+			if vm < 0 {
+				hmax = max(hmax, hm)
+			}
+			scan(a, mid, va, vm, depth-1)
+			scan(mid, b, vm, vb, depth-1)
+		}
+	}
 	for k := 0; k < steps; {
 		k1 := min(k+skip(pv), steps)
 		var v, hv float32
@@ -143,15 +175,7 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 		if v < 0 {
 			hmax = max(hmax, hv)
 		}
-		psi := float64(k1) * d
-		a := float64(k) * d
-		switch {
-		case pv < 0 && v < 0:
-		case pv < 0 && v >= 0:
-			addArc(start, root(a, psi, pv, v))
-		case pv >= 0 && v < 0:
-			start = root(a, psi, pv, v)
-		}
+		scan(float64(k)*d, float64(k1)*d, pv, v, 4)
 		pv = v
 		k = k1
 	}
@@ -192,7 +216,7 @@ func (m *Material) diskMaterial(c geom.Point, z, r float64) (area, above float64
 	top := float32(math.Inf(-1))
 	for j := j0; j < j1; j++ {
 		dy := m.cy(j) - c.Y
-		w2 := r*r - dy*dy
+		w2 := r*r*(1-1e-9) - dy*dy
 		if w2 < 0 {
 			continue
 		}

@@ -129,7 +129,7 @@ type Summary struct {
 	RapidViolations []Violation `json:"rapid_violations"` // rapids through material, always listed
 	MaxAP           float64     `json:"max_ap"`           // deepest axial engagement, mm
 	BeyondFlute     float64     `json:"beyond_flute"`     // path length with ap above the flute length, mm
-	Volume          float64     `json:"volume"`           // material removed, mm³
+	Volume          float64     `json:"volume"`           // material removed (sum of the sample volumes), mm³
 
 	MaxGouge  float64     `json:"max_gouge"`  // deepest intrusion into the Keep shape, mm
 	GougeAt   geom.Point3 `json:"gouge_at"`   // where it happens
@@ -377,7 +377,7 @@ type winItem struct{ l, v float64 }
 
 func (s *simulator) flush() {
 	if s.pg != nil && s.pt1 > s.pt0 {
-		s.sum.Volume += s.m.stamp(s.pg.piece(s.pt0, s.pt1), s.r)
+		s.m.stamp(s.pg.piece(s.pt0, s.pt1), s.r)
 	}
 	if s.pg != nil {
 		s.pt0 = s.pt1
@@ -532,6 +532,7 @@ func (s *simulator) keepAt(p geom.Point) (float32, bool) {
 func (s *simulator) account(p *Sample) {
 	sum := &s.sum
 	sum.Length += p.Step
+	sum.Volume += p.Volume
 	switch p.Class {
 	case Rapid:
 		sum.RapidLength += p.Step
