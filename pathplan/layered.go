@@ -67,8 +67,8 @@ type planner struct {
 	opt Options
 
 	r, a, tol, guard, rho0, s, lead, margin, maxStep float64
-	feed, entryFeed, slope                            float64
-	top, clear                                        float64
+	feed, entryFeed, slope                           float64
+	top, clear                                       float64
 
 	box     geom.Shape
 	outside geom.Shape // box less the stock
@@ -76,7 +76,7 @@ type planner struct {
 	// and twice the margin: a tool centre in the free space never reaches
 	// into it, so it counts as air for descents.
 	keepGrown geom.Shape
-	bases   []geom.Shape
+	bases     []geom.Shape
 
 	cleared []clearedSet
 	b       builder
@@ -984,4 +984,3 @@ func touchesWall(g *levelGeom, pc piece, d float64) bool {
 	}
 	return false
 }
-
