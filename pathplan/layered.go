@@ -726,49 +726,26 @@ func (p *planner) linkKind(g *levelGeom, a, b geom.Point, minWall float64) (geom
 	return 0, false
 }
 
-// liftToClearance takes the tool up to the clearance height: a short lift
-// at feed out of the cut, then a rapid.
+// liftToClearance takes the tool up to the clearance height: at feed as
+// far as material may lie beside the tool (up to 0.2 mm above the lowest
+// height at which its disk is clear of all material left by earlier
+// levels), then at rapid.
 func (p *planner) liftToClearance() {
 	if p.b.pos.Z >= p.clear-1e-9 {
 		return
 	}
 	if p.atDepth {
-		// Lift away from the material on the right of the last motion
-		// (walls and uncut stock lie there), into the cut on its left.
-		up := math.Min(p.b.pos.Z+0.5, p.clear)
-		q := p.b.pos.XY().Add(p.lastDir().Perp().Scale(liftAside))
-		p.b.feed(geom.Lift, p3(q, up), p.feed)
+		q := p.b.pos.XY()
+		h := p.airHeight(q, p.b.pos.Z)
+		if h > p.b.pos.Z+1e-9 {
+			p.b.feed(geom.Lift, p3(q, math.Min(h+0.2, p.clear)), p.feed)
+		}
 		if p.sum != nil {
 			p.sum.Lifts++
 		}
 	}
 	p.atDepth = false
 	p.b.rapid(geom.Point3{X: p.b.pos.X, Y: p.b.pos.Y, Z: p.clear})
-}
-
-// liftAside is how far a lift moves the tool sideways, away from the
-// material on the right of its last motion, mm.
-const liftAside = 0.25
-
-// lastDir returns the XY direction of the last move that moved in XY.
-func (p *planner) lastDir() geom.Point {
-	ms := p.b.path.Moves
-	for i := len(ms) - 1; i >= 0; i-- {
-		from := p.posBefore(i)
-		m := ms[i]
-		if m.Arc {
-			// tangent at the end of the arc
-			rad := m.To.XY().Sub(m.Center)
-			if m.CW {
-				return rad.Perp().Scale(-1).Unit()
-			}
-			return rad.Perp().Unit()
-		}
-		if d := m.To.XY().Sub(from.XY()); d.Len() > 1e-9 {
-			return d.Unit()
-		}
-	}
-	return geom.Point{}
 }
 
 // descend lifts the tool, moves it over q and brings it down to the lowest
