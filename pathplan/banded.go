@@ -23,6 +23,10 @@ type BandedOptions struct {
 	GridStep float64
 	// NoVerify skips the simulation and local repair of the finished path.
 	NoVerify bool
+	// ClimbOnly keeps every pass in climb milling; by default a pass that
+	// runs from wall to wall may be cut either way, whichever end is nearer,
+	// which saves the return through cut material.
+	ClimbOnly bool
 }
 
 // DefaultBand is the radial engagement band used when the job gives none:
@@ -38,6 +42,7 @@ type bandedSettings struct {
 	minR           float64 // smallest path radius, mm
 	h              float64 // grid spacing, mm
 	safe           float64 // height above a level's top at which rapids stop, mm
+	climbOnly      bool
 }
 
 // bandedSetup derives the banded cut data from the job.
@@ -88,6 +93,7 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 		s.h = math.Max(0.05, math.Min(1, s.target*d/2.5))
 	}
 	s.safe = 1
+	s.climbOnly = opt.ClimbOnly
 	return s, nil
 }
 
@@ -248,7 +254,7 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 // bandedLevel plans one domain part at one level and appends its moves.
 func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
 	g := newBandedGrid(comp.c, st.h)
-	p := spiralParams{r: st.r, phi: st.phi, h: st.h}
+	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
 	var start []spiralFront
@@ -371,10 +377,12 @@ func bandedEmit(b *builder, pieces []bandedPiece, z, levelTop, clear float64, st
 		case pieceLift:
 			flush()
 			to := pc.pts[len(pc.pts)-1]
-			b.feed(geom.Lift, p3(b.pos.XY(), levelTop+st.safe), st.feed)
+			// The lift starts and ends on swept nodes, where the column
+			// above the level is clear: rapid up and down, feed the last
+			// bit.
 			b.rapid(p3(b.pos.XY(), clear))
 			b.rapid(p3(to, clear))
-			b.rapid(p3(to, levelTop+st.safe))
+			b.rapid(p3(to, z+0.2))
 			b.feed(geom.Link, p3(to, z), st.entry)
 			sum.Lifts++
 		case pieceBoundary:
@@ -382,8 +390,17 @@ func bandedEmit(b *builder, pieces []bandedPiece, z, levelTop, clear float64, st
 			if len(pc.pts) > 0 && b.pos.XY().Dist(pc.pts[0]) > 1e-6 {
 				b.feed(geom.Link, p3(pc.pts[0], z), st.feed)
 			}
-			for _, q := range pc.pts[1:] {
-				b.feed(geom.Feed, p3(q, z), st.feed)
+			// Walls keep their corners but for a small rounding, so the
+			// corners are cleared (uncut material) and the tool never
+			// stops dead.
+			kinds := make([]geom.MoveKind, len(pc.pts))
+			for i := range kinds {
+				kinds[i] = geom.Feed
+			}
+			for _, m := range smoothPath(pc.pts, kinds, math.Min(st.minR, 0.3)) {
+				m.To.Z = z
+				m.Feed = st.feed
+				b.add(m)
 			}
 			sum.Rings++
 		case pieceLink:

@@ -31,6 +31,21 @@ type spiralParams struct {
 	h       float64 // grid node spacing
 	minStep float64 // smallest local step, mm
 	maxStep float64 // largest local step, mm
+	// climbOnly keeps every pass in climb; otherwise an open pass may run
+	// either way, whichever end is nearer.
+	climbOnly bool
+	// leadIn bends the start of open passes onto the previous front
+	// (measured worse on the demo job, so off by default).
+	leadIn bool
+}
+
+// spiralReversed returns a reversed copy of pts.
+func spiralReversed(pts []geom.Point) []geom.Point {
+	out := make([]geom.Point, len(pts))
+	for i, p := range pts {
+		out[len(pts)-1-i] = p
+	}
+	return out
 }
 
 // spiralFront is one extracted front polyline with its local steps.
@@ -45,6 +60,7 @@ type spiralFront struct {
 // returns the level's pieces in cutting order, links included, ending with
 // the boundary pass along the domain c. pos is where the tool stands.
 func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiralFront, pos geom.Point, p spiralParams) ([]bandedPiece, geom.Point, error) {
+	climbOnly := p.climbOnly
 	var out []bandedPiece
 	prev := start
 	lastClosed := false
@@ -97,8 +113,15 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 							bi, bd, bk = i, d, k
 						}
 					}
-				} else if d := f.pts[0].Dist(pos); d < bd {
-					bi, bd, bk = i, d, 0
+				} else {
+					if d := f.pts[0].Dist(pos); d < bd {
+						bi, bd, bk = i, d, 0
+					}
+					if !climbOnly {
+						if d := f.pts[len(f.pts)-1].Dist(pos); d < bd {
+							bi, bd, bk = i, d, -1
+						}
+					}
 				}
 			}
 			done[bi] = true
@@ -106,6 +129,14 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			pts := f.pts
 			if f.closed {
 				pts = spiralRotate(pts, bk)
+			} else if bk < 0 {
+				pts = spiralReversed(pts)
+			}
+			if !f.closed && p.leadIn {
+				// Lead in from the previous front: the radial step grows
+				// from nothing to the full step.
+				pts = spiralLeadIn(pts, prev, math.Min(p.r, 0.3*polyLen(pts)), 2*p.maxStep+2*p.h)
+				bd = pts[0].Dist(pos)
 			}
 			if lastClosed && f.closed && bd <= 2*p.maxStep+2*p.h {
 				// Spiral transition: bend the start of the new loop onto
@@ -232,6 +263,48 @@ func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geo
 	return append(pts, last)
 }
 
+// spiralLeadIn bends the first length l of an open pass onto the nearest
+// previous front (when one lies within reach), fading to the pass itself.
+func spiralLeadIn(pts []geom.Point, prev []spiralFront, l, reach float64) []geom.Point {
+	if l <= 0 {
+		return pts
+	}
+	out := append([]geom.Point(nil), pts...)
+	s := 0.0
+	for i := range out {
+		if i > 0 {
+			s += pts[i].Dist(pts[i-1])
+		}
+		if s >= l {
+			break
+		}
+		q, d := nearestOnFronts(prev, pts[i])
+		if d > reach {
+			if i == 0 {
+				return pts
+			}
+			break
+		}
+		out[i] = q.Lerp(pts[i], s/l)
+	}
+	return out
+}
+
+// nearestOnFronts returns the point of the fronts nearest to p and its
+// distance.
+func nearestOnFronts(fs []spiralFront, p geom.Point) (geom.Point, float64) {
+	best, bd := p, math.Inf(1)
+	for _, f := range fs {
+		for i := 0; i+1 < len(f.pts); i++ {
+			q := geom.ClosestOnSegment(p, f.pts[i], f.pts[i+1])
+			if d := q.Dist(p); d < bd {
+				best, bd = q, d
+			}
+		}
+	}
+	return best, bd
+}
+
 // spiralRotate returns a closed polyline (first point repeated at the end)
 // starting at vertex k.
 func spiralRotate(pts []geom.Point, k int) []geom.Point {
@@ -272,7 +345,53 @@ func spiralLink(g *bandedGrid, a, b geom.Point, p spiralParams) []bandedPiece {
 	if path := gridPath(g, a, b, p.maxStep+2*p.h); path != nil {
 		return []bandedPiece{{kind: pieceLink, pts: path}}
 	}
-	return []bandedPiece{{kind: pieceLift, pts: []geom.Point{a, b}}}
+	// Lift: first step back onto swept nodes, where the tool touches no
+	// material, so that neither the lift nor the plunge cuts.
+	ra, rb := nearestReached(g, a), nearestReached(g, b)
+	return []bandedPiece{
+		{kind: pieceLink, pts: []geom.Point{a, ra}},
+		{kind: pieceLift, pts: []geom.Point{ra, rb}},
+		{kind: pieceLink, pts: []geom.Point{rb, b}},
+	}
+}
+
+// nearestReached returns the swept node nearest to p (p itself when none).
+func nearestReached(g *bandedGrid, p geom.Point) geom.Point {
+	k0 := g.node(p)
+	if k0 < 0 {
+		return p
+	}
+	i0, j0 := k0%g.nx, k0/g.nx
+	for rad := 0; rad < 64; rad++ {
+		best, bd := -1, math.Inf(1)
+		for j := j0 - rad; j <= j0+rad; j++ {
+			for i := i0 - rad; i <= i0+rad; i++ {
+				if i < 0 || j < 0 || i >= g.nx || j >= g.ny {
+					continue
+				}
+				if max(abs(i-i0), abs(j-j0)) != rad {
+					continue
+				}
+				k := j*g.nx + i
+				if g.in[k] && g.reached[k] {
+					if d := g.pt(k).Dist(p); d < bd {
+						best, bd = k, d
+					}
+				}
+			}
+		}
+		if best >= 0 {
+			return g.pt(best)
+		}
+	}
+	return p
+}
+
+func abs(i int) int {
+	if i < 0 {
+		return -i
+	}
+	return i
 }
 
 // linkClear reports whether the segment ab runs through swept nodes, ends
@@ -299,10 +418,6 @@ func linkClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
 // gridPath finds a path of swept nodes from a to b (breadth-first, eight
 // neighbours) and shortens it to the fewest clear straight legs.
 func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
-	ka, kb := g.node(a), g.node(b)
-	if ka < 0 || kb < 0 {
-		return nil
-	}
 	ok := func(k int) bool {
 		if !g.in[k] {
 			return false
@@ -310,7 +425,33 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 		q := g.pt(k)
 		return g.reached[k] || q.Dist(a) <= slack || q.Dist(b) <= slack
 	}
-	if !ok(ka) || !ok(kb) {
+	near := func(p geom.Point) int {
+		k0 := g.node(p)
+		if k0 < 0 {
+			return -1
+		}
+		if ok(k0) {
+			return k0
+		}
+		i0, j0 := k0%g.nx, k0/g.nx
+		best, bd := -1, math.Inf(1)
+		for j := j0 - 3; j <= j0+3; j++ {
+			for i := i0 - 3; i <= i0+3; i++ {
+				if i < 0 || j < 0 || i >= g.nx || j >= g.ny {
+					continue
+				}
+				k := j*g.nx + i
+				if ok(k) {
+					if d := g.pt(k).Dist(p); d < bd {
+						best, bd = k, d
+					}
+				}
+			}
+		}
+		return best
+	}
+	ka, kb := near(a), near(b)
+	if ka < 0 || kb < 0 {
 		return nil
 	}
 	prev := map[int]int{ka: -1}

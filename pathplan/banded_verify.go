@@ -6,6 +6,7 @@ import (
 
 	"github.com/chipband/chipband/engage"
 	"github.com/chipband/chipband/geom"
+	"github.com/chipband/chipband/timing"
 )
 
 // bandedKeep returns the material that must stay: the stock less every
@@ -63,6 +64,89 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 			return nil, fmt.Errorf("simulate feature %q: %w", f.Name, err)
 		}
 		out = append(out, res.Summary)
+	}
+	return out, nil
+}
+
+// BandedFeatureReport is the report of one feature of a banded plan.
+type BandedFeatureReport struct {
+	Name string `json:"name"`
+	// Engagement is the engage simulation of the feature's moves on the
+	// material the features before it left (entries excluded from the
+	// engagement figures).
+	Engagement engage.Summary `json:"engagement"`
+	// CycleS is the feature's time on the machine (timing, model R1), s.
+	CycleS float64 `json:"cycle_s"`
+	// BoundS is the material-removal bound V/(ae_target·ap·vf), s, with V
+	// the volume the simulation removed and vf the cutting feed.
+	BoundS float64 `json:"bound_s"`
+	// Ratio is CycleS/BoundS.
+	Ratio float64 `json:"ratio"`
+}
+
+// BandedReport simulates a plan feature by feature and times it on machine
+// m (model R1): the report of `chipband plan --strategy banded --report`.
+// ap is taken as the level depth of each feature.
+func BandedReport(ctx context.Context, plan *Plan, m timing.Machine) ([]BandedFeatureReport, error) {
+	sums, err := bandedFeatureSim(ctx, plan)
+	if err != nil {
+		return nil, err
+	}
+	times, err := bandedOpTimes(ctx, plan, m)
+	if err != nil {
+		return nil, err
+	}
+	st, err := bandedSetup(plan.Job, BandedOptions{})
+	if err != nil {
+		return nil, err
+	}
+	var out []BandedFeatureReport
+	for i, fs := range plan.Features {
+		ap := fs.Depth
+		if n := len(fs.Levels); n > 0 {
+			ap = fs.Depth / float64(n)
+		}
+		vf := st.feed / 60
+		bound := sums[i].Volume / (st.target * plan.Job.Tool.Diameter * ap * vf)
+		r := BandedFeatureReport{Name: fs.Name, Engagement: sums[i], CycleS: times[fs.Name], BoundS: bound}
+		if bound > 0 {
+			r.Ratio = r.CycleS / bound
+		}
+		out = append(out, r)
+	}
+	return out, nil
+}
+
+// bandedOpTimes times the plan's path per operation with timing's R1 model.
+func bandedOpTimes(ctx context.Context, plan *Plan, m timing.Machine) (map[string]float64, error) {
+	var blocks []timing.Block
+	from := plan.Path.Start
+	op := ""
+	next := 0
+	for i, mv := range plan.Path.Moves {
+		for next < len(plan.Path.Ops) && plan.Path.Ops[next].First == i {
+			op = plan.Path.Ops[next].Name
+			next++
+		}
+		b := timing.Block{Kind: timing.KindLine, From: [3]float64{from.X, from.Y, from.Z}, To: [3]float64{mv.To.X, mv.To.Y, mv.To.Z}, Feed: mv.Feed, Op: op}
+		switch {
+		case mv.Kind == geom.Rapid:
+			b.Kind = timing.KindRapid
+		case mv.Arc:
+			b.Kind = timing.KindArc
+			b.Center = [2]float64{mv.Center.X, mv.Center.Y}
+			b.CW = mv.CW
+		}
+		blocks = append(blocks, b)
+		from = mv.To
+	}
+	rep, err := timing.Estimate(ctx, blocks, m, timing.Options{})
+	if err != nil {
+		return nil, fmt.Errorf("timing: %w", err)
+	}
+	out := map[string]float64{}
+	for _, o := range rep.Operations {
+		out[o.Name] += o.TotalS
 	}
 	return out, nil
 }
