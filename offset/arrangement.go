@@ -305,14 +305,16 @@ func (a *arrangement) snapRound() error {
 		p, q := a.pts[a.sa[s]], a.pts[a.sb[s]]
 		ip, iq := a.rawHot[a.sa[s]], a.rawHot[a.sb[s]]
 		dx, dy := q.x-p.x, q.y-p.y
+		x0, y0 := min(p.x, q.x)-1, min(p.y, q.y)-1
+		x1, y1 := max(p.x, q.x)+1, max(p.y, q.y)+1
 		cands = cands[:0]
 		buf = a.g.cells(p, q, buf[:0])
 		for _, c := range buf {
 			for _, id := range a.hotIDs[a.hotStart[c]:a.hotStart[c+1]] {
-				if id == ip || id == iq {
+				h := a.hot[id]
+				if h.x < x0 || h.x > x1 || h.y < y0 || h.y > y1 || id == ip || id == iq {
 					continue
 				}
-				h := a.hot[id]
 				if segHitsPixel(p, q, h) {
 					cands = append(cands, cand{dot(h.x-p.x, h.y-p.y, dx, dy), id})
 				}
