@@ -7,7 +7,27 @@ import (
 	"testing"
 
 	"github.com/twpayne/go-geos"
+
+	"github.com/chipband/chipband/geom"
 )
+
+// toGEOS converts a shape to a GEOS MultiPolygon.
+func toGEOS(c *geos.Context, s geom.Shape) *geos.Geom {
+	var polys []*geos.Geom
+	for _, g := range s {
+		var rings [][][]float64
+		for _, r := range g.Rings() {
+			cs := make([][]float64, 0, len(r)+1)
+			for _, p := range r {
+				cs = append(cs, []float64{p.X, p.Y})
+			}
+			cs = append(cs, []float64{r[0].X, r[0].Y})
+			rings = append(rings, cs)
+		}
+		polys = append(polys, c.NewPolygon(rings))
+	}
+	return c.NewCollection(geos.TypeIDMultiPolygon, polys)
+}
 
 // BenchmarkInward2000GEOS is BenchmarkInward2000 done by GEOS buffer with
 // round joins, its quadrant segments chosen per distance so that the chord
