@@ -20,6 +20,9 @@ type bandedGrid struct {
 	t         []float64 // distance to the previous front (scratch)
 	src       []int32   // segment of the previous front nearest to the node
 	touched   []int32   // nodes whose t was set in this propagation
+	bfsPrev   []int32   // scratch of link searches
+	bfsGen    []uint32
+	gen       uint32
 }
 
 // newBandedGrid rasterises the domain c with node spacing h.

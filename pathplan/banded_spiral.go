@@ -454,11 +454,19 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 	if ka < 0 || kb < 0 {
 		return nil
 	}
-	prev := map[int]int{ka: -1}
+	if len(g.bfsPrev) != len(g.in) {
+		g.bfsPrev = make([]int32, len(g.in))
+		g.bfsGen = make([]uint32, len(g.in))
+	}
+	g.gen++
+	gen := g.gen
+	prev := g.bfsPrev
+	seen := func(k int) bool { return g.bfsGen[k] == gen }
+	mark := func(k, from int) { g.bfsGen[k] = gen; prev[k] = int32(from) }
+	mark(ka, -1)
 	queue := []int{ka}
-	for len(queue) > 0 && len(prev) < 4_000_000 {
-		k := queue[0]
-		queue = queue[1:]
+	for qi := 0; qi < len(queue); qi++ {
+		k := queue[qi]
 		if k == kb {
 			break
 		}
@@ -470,19 +478,19 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 					continue
 				}
 				kk := jj*g.nx + ii
-				if _, seen := prev[kk]; seen || !ok(kk) {
+				if seen(kk) || !ok(kk) {
 					continue
 				}
-				prev[kk] = k
+				mark(kk, k)
 				queue = append(queue, kk)
 			}
 		}
 	}
-	if _, found := prev[kb]; !found {
+	if !seen(kb) {
 		return nil
 	}
 	var nodes []geom.Point
-	for k := kb; k >= 0; k = prev[k] {
+	for k := kb; k >= 0; k = int(prev[k]) {
 		nodes = append(nodes, g.pt(k))
 	}
 	for i, j := 0, len(nodes)-1; i < j; i, j = i+1, j-1 {
