@@ -76,6 +76,7 @@ type planner struct {
 	// and twice the margin: a tool centre in the free space never reaches
 	// into it, so it counts as air for descents.
 	keepGrown geom.Shape
+	baseAir   geom.Shape // outside and keepGrown
 	bases     []geom.Shape
 
 	cleared []clearedSet
@@ -130,8 +131,12 @@ func newPlanner(ctx context.Context, job *Job, opt Options) (*planner, error) {
 			return nil, jobErrorf(f.Name, "region against the stock: %v", err)
 		}
 	}
+	p.baseAir = p.outside
 	if len(keep) > 0 {
 		if p.keepGrown, err = offset.Offset(keep, p.a+p.guard+2*p.margin, p.tol); err != nil {
+			return nil, fmt.Errorf("walls: %w", err)
+		}
+		if p.baseAir, err = geom.Union(p.outside, p.keepGrown); err != nil {
 			return nil, fmt.Errorf("walls: %w", err)
 		}
 	}
@@ -776,7 +781,7 @@ func (p *planner) airHeight(q geom.Point, z float64) float64 {
 		}
 	}
 	sort.Float64s(cands)
-	if in(p.outside) {
+	if in(p.baseAir) {
 		return z
 	}
 	for _, h := range cands {
