@@ -45,7 +45,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	case "layered":
 		plan, err = pathplan.PlanLayered(ctx, job, pathplan.Options{})
 	case "banded":
-		return badInputf("banded strategy not built yet; use --strategy layered")
+		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{})
 	default:
 		return badInputf("unknown strategy %q (want layered or banded)", *strategy)
 	}
