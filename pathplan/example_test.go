@@ -1,0 +1,68 @@
+package pathplan_test
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"strings"
+
+	"github.com/chipband/chipband/pathplan"
+)
+
+// Plan the built-in demo part with the layered strategy and list its
+// features.
+func ExamplePlanLayered() {
+	job := pathplan.DemoJob()
+	plan, err := pathplan.PlanLayered(context.Background(), job, pathplan.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, f := range plan.Features {
+		kind := "closed"
+		if f.Open {
+			kind = "open"
+		}
+		fmt.Printf("%s: %s, %d levels down to %g mm\n", f.Name, kind, len(f.Levels), f.Levels[len(f.Levels)-1])
+	}
+	// Output:
+	// deep step: open, 14 levels down to -14 mm
+	// boss pocket: closed, 8 levels down to -8 mm
+	// comb pocket: closed, 3 levels down to -3 mm
+}
+
+// Read a job, plan it and write the G-code.
+func ExampleWriteGCode() {
+	job, err := pathplan.ReadJob(strings.NewReader(`{
+	  "name": "slot",
+	  "stock": {"outline": "POLYGON ((0 0, 60 0, 60 40, 0 40, 0 0))", "top": 0},
+	  "features": [{"name": "slot", "region": "POLYGON ((-5 15, 65 15, 65 25, -5 25, -5 15))", "depth": 3}],
+	  "tool": {"diameter": 6, "flute_length": 15, "flutes": 2},
+	  "cut": {"spindle_rpm": 20000, "chip_load": 0.025, "layered": {"stepover": 0.5, "stepdown": 1.5}},
+	  "clearance": 5}`))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	plan, err := pathplan.PlanLayered(context.Background(), job, pathplan.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	if err := pathplan.WriteGCode(os.Stdout, plan); err != nil {
+		fmt.Println(err)
+	}
+}
+
+// A job error names the feature.
+func ExampleReadJob() {
+	_, err := pathplan.ReadJob(strings.NewReader(`{
+	  "stock": {"outline": "POLYGON ((0 0, 60 0, 60 40, 0 40, 0 0))", "top": 0},
+	  "features": [{"name": "slot A", "region": "POLYGON ((10 10, 50 10, 50 30, 10 30, 10 10))", "depth": 0}],
+	  "tool": {"diameter": 6, "flute_length": 15, "flutes": 2},
+	  "cut": {"spindle_rpm": 20000, "chip_load": 0.025},
+	  "clearance": 5}`))
+	fmt.Println(err)
+	// Output:
+	// feature "slot A": depth must be positive, got 0
+}
