@@ -2,6 +2,7 @@ package engage
 
 import (
 	"context"
+	"runtime"
 	"testing"
 	"time"
 
@@ -47,6 +48,7 @@ func BenchmarkSimulate(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		b.StopTimer()
 		m := base.Clone()
+		runtime.GC() // keep the collection of earlier rounds out of the figure
 		c0 := cpuTime()
 		b.StartTimer()
 		if _, err := Simulate(context.Background(), m, tool10, tp, SimOptions{Band: [2]float64{0.05, 0.1}}); err != nil {
@@ -59,6 +61,33 @@ func BenchmarkSimulate(b *testing.B) {
 	b.ReportMetric(length/1000*float64(b.N)/b.Elapsed().Seconds(), "m/s")
 	// On a shared machine wall time varies with the load; the CPU time of
 	// the process is the steadier figure.
+	b.ReportMetric(length/1000*float64(b.N)/cpu.Seconds(), "cpu-m/s")
+}
+
+// BenchmarkSimulateSummary is BenchmarkSimulate without keeping the profile.
+func BenchmarkSimulateSummary(b *testing.B) {
+	base, err := NewMaterial(rectShape(0, 0, 300, 200), 0, MaterialOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	tp := zigzagPath(300, 0.75, -20, 10000)
+	length := tp.Length()
+	var cpu time.Duration
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		b.StopTimer()
+		m := base.Clone()
+		runtime.GC() // keep the collection of earlier rounds out of the figure
+		c0 := cpuTime()
+		b.StartTimer()
+		if _, err := Simulate(context.Background(), m, tool10, tp, SimOptions{SummaryOnly: true}); err != nil {
+			b.Fatal(err)
+		}
+		b.StopTimer()
+		cpu += cpuTime() - c0
+		b.StartTimer()
+	}
+	b.ReportMetric(length/1000*float64(b.N)/b.Elapsed().Seconds(), "m/s")
 	b.ReportMetric(length/1000*float64(b.N)/cpu.Seconds(), "cpu-m/s")
 }
 

@@ -494,6 +494,11 @@ func TestBadInput(t *testing.T) {
 			_, err := Simulate(context.Background(), m, tool10, okTP, SimOptions{Step: -1})
 			return err
 		}},
+		{"tiny step", "use a larger step", func() error {
+			m, _ := NewMaterial(stock, 0, MaterialOptions{})
+			_, err := Simulate(context.Background(), m, tool10, okTP, SimOptions{Step: 1e-9})
+			return err
+		}},
 		{"bad band", "band must satisfy", func() error {
 			m, _ := NewMaterial(stock, 0, MaterialOptions{})
 			_, err := Simulate(context.Background(), m, tool10, okTP, SimOptions{Band: [2]float64{0.2, 0.1}})

@@ -34,7 +34,7 @@ type Engagement struct {
 func (e Engagement) PhiDeg() float64 { return e.Phi * 180 / math.Pi }
 
 // engageSamples is the number of intervals on the front half circle.
-const engageSamples = 32
+const engageSamples = 24
 
 // Engage returns the engagement of tool t at position at (tool-centre XY,
 // tool-bottom Z) moving along dir in the XY plane. Only the front half of
@@ -42,6 +42,50 @@ const engageSamples = 32
 // runs in what the tool has just cut. When dir is zero (a vertical move)
 // the whole circle is examined.
 func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
+	return m.engage(t, at, dir, nil)
+}
+
+// circleCache remembers the field on the engagement grid between samples of
+// one move, while the material does not change. The field is 1-Lipschitz,
+// so a grid point whose cached |v| exceeds the distance it has moved since
+// (slack) keeps its sign and needs no new lookup.
+type circleCache struct {
+	ok    [2*engageSamples + 1]bool
+	v, h  [2*engageSamples + 1]float32
+	slack [2*engageSamples + 1]float32
+	at    geom.Point3
+	dir   geom.Point
+	valid bool
+}
+
+// reset forgets everything (the material changed).
+func (c *circleCache) reset() {
+	c.valid = false
+	c.ok = [2*engageSamples + 1]bool{}
+}
+
+// move accounts for the tool moving to at along dir; it reports false when
+// the cache cannot be used there.
+func (c *circleCache) move(at geom.Point3, dir geom.Point, r float64) bool {
+	if dir == (geom.Point{}) {
+		c.reset()
+		return false
+	}
+	if !c.valid || at.Z != c.at.Z {
+		c.reset()
+		c.valid, c.at, c.dir = true, at, dir
+		return true
+	}
+	turn := math.Abs(math.Atan2(c.dir.Cross(dir), c.dir.Dot(dir)))
+	d := float32(at.XY().Dist(c.at.XY()) + r*turn + 1e-6)
+	for k := range c.slack {
+		c.slack[k] += d
+	}
+	c.at, c.dir = at, dir
+	return true
+}
+
+func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleCache) Engagement {
 	var e Engagement
 	if !finite(at.X, at.Y, at.Z, dir.X, dir.Y) || !(t.Diameter > 0) {
 		return e
@@ -71,19 +115,50 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 	if full {
 		tol = float32(m.cell * m.cell / (2 * r))
 	}
-	eval := func(psi float64) (float32, float32) {
-		s, c := math.Sincos(psi)
-		v, h := m.field(at.X+r*(s*u.X+c*n.X), at.Y+r*(s*u.Y+c*n.Y), zt)
-		return v + tol, h
-	}
-	// Circle points on the fixed grid come from the table of the material.
+
+	// Circle points on the fixed grid come from the table of the material;
+	// points between grid angles by angle addition from the nearest entry.
 	ux, uy := r*u.X, r*u.Y
 	nx, ny := r*n.X, r*n.Y
 	tab := &m.circle
-	evalK := func(k int) (float32, float32) {
+	eval := func(psi float64) (float32, float32) {
+		k := int(psi/d + 0.5)
+		dl := psi - float64(k)*d
+		d2 := dl * dl
+		sd := dl * (1 - d2/6*(1-d2/20))    // sin δ, |δ| ≤ π/48
+		cd := 1 - d2/2*(1-d2/12*(1-d2/30)) // cos δ
+		sc := tab[k%(2*engageSamples)]
+		sn := sc[0]*cd + sc[1]*sd
+		cs := sc[1]*cd - sc[0]*sd
+		v, h := m.field(at.X+sn*ux+cs*nx, at.Y+sn*uy+cs*ny, zt)
+		return v + tol, h
+	}
+	lookK := func(k int) (float32, float32) {
 		sc := tab[k%(2*engageSamples)]
 		v, h := m.field(at.X+sc[0]*ux+sc[1]*nx, at.Y+sc[0]*uy+sc[1]*ny, zt)
 		return v + tol, h
+	}
+	if full || (cache != nil && !cache.move(at, u, r)) {
+		cache = nil
+	}
+	// evalK returns the field at grid point k, or from the cache a value of
+	// the same sign and no larger magnitude.
+	evalK := func(k int) (float32, float32) {
+		if cache == nil {
+			return lookK(k)
+		}
+		if cache.ok[k] {
+			v, sl := cache.v[k], cache.slack[k]
+			if v > sl+1e-4 {
+				return v - sl, cache.h[k]
+			}
+			if v < -sl-1e-4 {
+				return v + sl, cache.h[k]
+			}
+		}
+		v, h := lookK(k)
+		cache.ok[k], cache.v[k], cache.h[k], cache.slack[k] = true, v, h, 0
+		return v, h
 	}
 	// The field is close to a distance (1-Lipschitz), so no boundary lies
 	// within |v| of a sample: grid points closer than that are skipped.
@@ -91,20 +166,35 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 		k := int(0.7 * math.Abs(float64(v)) / (r * d))
 		return max(k, 1)
 	}
-	// root refines a sign change of the field between psi a (va) and b (vb).
+	// root finds the sign change of the field between psi a (va) and b
+	// (vb) by regula falsi with the Illinois modification, which stays
+	// fast where the field has a kink (two cuts meeting).
 	root := func(a, b float64, va, vb float32) float64 {
-		x := a + (b-a)*float64(va/(va-vb))
-		vx, _ := eval(x)
-		if (vx < 0) == (va < 0) {
-			if vb != vx {
-				return x + (b-x)*float64(vx/(vx-vb))
+		side := 0
+		for it := 0; it < 10; it++ {
+			x := a + (b-a)*float64(va/(va-vb))
+			if b-a < 3e-4 {
+				return x
 			}
-			return x
+			vx, _ := eval(x)
+			switch {
+			case vx == 0:
+				return x
+			case (vx < 0) == (va < 0):
+				a, va = x, vx
+				if side == -1 {
+					vb /= 2
+				}
+				side = -1
+			default:
+				b, vb = x, vx
+				if side == 1 {
+					va /= 2
+				}
+				side = 1
+			}
 		}
-		if va != vx {
-			return a + (x-a)*float64(va/(va-vx))
-		}
-		return x
+		return a + (b-a)*float64(va/(va-vb))
 	}
 	var (
 		phi, sinInt, sinMax float64
@@ -226,8 +316,8 @@ func (m *Material) diskMaterial(c geom.Point, z, r float64) (area, above float64
 			continue
 		}
 		row := j * m.nx
-		for _, h := range m.h[row+i0 : row+i1] {
-			if h > zt {
+		for _, cl := range m.c[row+i0 : row+i1] {
+			if h := cl.h; h > zt {
 				cnt++
 				top = max(top, h)
 			}

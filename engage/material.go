@@ -45,10 +45,7 @@ type Material struct {
 	nx, ny int
 	top    float64 // highest material Z
 	band   float32 // width of the exact-distance band around boundaries
-	h      []float32
-	a      []float32 // r − d of the cut that set h (positive: removed)
-	b      []float32 // r − d of the nearest deeper pass that did not reach (negative)
-	s      []float32 // signed distance outside the stock outline (positive outside)
+	c      []cell
 	// circle holds (sin ψ, cos ψ) on the engagement grid of the full circle.
 	circle [2 * engageSamples][2]float64
 }
@@ -93,10 +90,7 @@ func NewMaterial(stock geom.Shape, top float64, opt MaterialOptions) (*Material,
 		x0: bb.Min.X - pad, y0: bb.Min.Y - pad,
 		cell: c, inv: 1 / c, nx: nx, ny: ny, top: top,
 		band: float32(5 * c),
-		h:    make([]float32, n),
-		a:    make([]float32, n),
-		b:    make([]float32, n),
-		s:    make([]float32, n),
+		c:    make([]cell, n),
 	}
 	for k := range m.circle {
 		sn, cs := math.Sincos(float64(k) * math.Pi / engageSamples)
@@ -107,14 +101,14 @@ func NewMaterial(stock geom.Shape, top float64, opt MaterialOptions) (*Material,
 	negInf := float32(math.Inf(-1))
 	for k, d := range sd {
 		// d is positive inside the stock.
-		m.s[k] = -d
-		m.b[k] = -d
+		m.c[k].s = -d
+		m.c[k].b = -d
 		if d > 0 {
-			m.h[k] = float32(top)
-			m.a[k] = m.band
+			m.c[k].h = float32(top)
+			m.c[k].a = m.band
 		} else {
-			m.h[k] = negInf
-			m.a[k] = -d
+			m.c[k].h = negInf
+			m.c[k].a = -d
 		}
 	}
 	return m, nil
@@ -163,10 +157,7 @@ func (m *Material) Bounds() geom.Rect {
 // Clone returns an independent copy of m.
 func (m *Material) Clone() *Material {
 	c := *m
-	c.h = append([]float32(nil), m.h...)
-	c.a = append([]float32(nil), m.a...)
-	c.b = append([]float32(nil), m.b...)
-	c.s = append([]float32(nil), m.s...)
+	c.c = append([]cell(nil), m.c...)
 	return &c
 }
 
@@ -178,7 +169,7 @@ func (m *Material) HeightAt(p geom.Point) (float64, bool) {
 	if i < 0 || j < 0 || i >= m.nx || j >= m.ny {
 		return 0, false
 	}
-	h := m.h[j*m.nx+i]
+	h := m.c[j*m.nx+i].h
 	if math.IsInf(float64(h), -1) {
 		return 0, false
 	}
@@ -207,22 +198,31 @@ func (m *Material) Remove(region geom.Shape, floor float64) error {
 		for ii := 0; ii < win.nx; ii++ {
 			k := row + ii
 			d := sd[jj*win.nx+ii]
-			h := m.h[k]
+			h := m.c[k].h
 			if d > 0 {
 				switch {
 				case h > fl+epsZ:
-					m.h[k] = fl
-					m.a[k] = d
-					m.b[k] = m.s[k]
+					m.c[k].h = fl
+					m.c[k].a = d
+					m.c[k].b = m.c[k].s
 				case h >= fl-epsZ:
-					m.a[k] = max(m.a[k], d)
+					m.c[k].a = max(m.c[k].a, d)
 				}
 			} else if fl < h-epsZ {
-				m.b[k] = max(m.b[k], d)
+				m.c[k].b = max(m.c[k].b, d)
 			}
 		}
 	}
 	return nil
+}
+
+// cell is one grid cell of a Material. The four values sit together so
+// that a bilinear lookup touches two cache lines.
+type cell struct {
+	h float32 // top Z of the material (−Inf: none)
+	a float32 // r − d of the cut that set h (positive: removed)
+	b float32 // r − d of the nearest deeper pass that did not reach (negative)
+	s float32 // signed distance outside the stock outline (positive outside)
 }
 
 // window is a rectangle of cells.
@@ -350,10 +350,10 @@ func (m *Material) edgeDistance(p, q geom.Point, win window, band float64, d []f
 // value returns the boundary field of cell k at tool-bottom height zt
 // (already raised by epsZ): positive where there is no material.
 func (m *Material) value(k int, zt float32) float32 {
-	if m.h[k] <= zt {
-		return m.a[k]
+	if m.c[k].h <= zt {
+		return m.c[k].a
 	}
-	return m.b[k]
+	return m.c[k].b
 }
 
 // field interpolates the boundary field at (x, y) for tool-bottom height zt
@@ -368,33 +368,34 @@ func (m *Material) field(x, y float64, zt float32) (v, hmax float32) {
 	i, j := int(gx), int(gy)
 	fx, fy := float32(gx-float64(i)), float32(gy-float64(j))
 	k := j*m.nx + i
-	h := m.h
-	h00, h10, h01, h11 := h[k], h[k+1], h[k+m.nx], h[k+m.nx+1]
+	r0 := m.c[k : k+2 : k+2]
+	r1 := m.c[k+m.nx : k+m.nx+2 : k+m.nx+2]
+	c00, c10, c01, c11 := &r0[0], &r0[1], &r1[0], &r1[1]
 	var v00, v10, v01, v11 float32
 	hmax = float32(math.Inf(-1))
-	if h00 <= zt {
-		v00 = m.a[k]
+	if c00.h <= zt {
+		v00 = c00.a
 	} else {
-		v00 = m.b[k]
-		hmax = h00
+		v00 = c00.b
+		hmax = c00.h
 	}
-	if h10 <= zt {
-		v10 = m.a[k+1]
+	if c10.h <= zt {
+		v10 = c10.a
 	} else {
-		v10 = m.b[k+1]
-		hmax = max(hmax, h10)
+		v10 = c10.b
+		hmax = max(hmax, c10.h)
 	}
-	if h01 <= zt {
-		v01 = m.a[k+m.nx]
+	if c01.h <= zt {
+		v01 = c01.a
 	} else {
-		v01 = m.b[k+m.nx]
-		hmax = max(hmax, h01)
+		v01 = c01.b
+		hmax = max(hmax, c01.h)
 	}
-	if h11 <= zt {
-		v11 = m.a[k+m.nx+1]
+	if c11.h <= zt {
+		v11 = c11.a
 	} else {
-		v11 = m.b[k+m.nx+1]
-		hmax = max(hmax, h11)
+		v11 = c11.b
+		hmax = max(hmax, c11.h)
 	}
 	v0 := v00 + (v10-v00)*fx
 	v1 := v01 + (v11-v01)*fx
@@ -433,7 +434,7 @@ func (m *Material) Residual(region geom.Shape, floor, tol float64) (Residual, er
 				continue
 			}
 			k := (win.j0+jj)*m.nx + win.i0 + ii
-			h := float64(m.h[k])
+			h := float64(m.c[k].h)
 			if math.IsInf(h, -1) {
 				continue
 			}

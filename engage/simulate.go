@@ -11,6 +11,9 @@ import (
 // DefaultStep is the default sampling step of Simulate along the path, mm.
 const DefaultStep = 0.1
 
+// DefaultMaxSamples bounds the number of samples of one Simulate call.
+const DefaultMaxSamples = 50_000_000
+
 // SampleClass tells what the tool was doing at a sample.
 type SampleClass uint8
 
@@ -96,6 +99,9 @@ type SimOptions struct {
 	// Tolerance for uncut material and floor gouges in Targets, mm
 	// (default 0.01).
 	Tolerance float64
+	// MaxSamples bounds the samples of the run (default DefaultMaxSamples);
+	// a path and step that need more get an error instead of a hang.
+	MaxSamples int
 	// SummaryOnly drops the per-sample profile (the summary is still exact).
 	SummaryOnly bool
 	// Progress, when set, is called now and then with the path length done
@@ -279,6 +285,12 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 	if opt.Tolerance == 0 {
 		opt.Tolerance = 0.01
 	}
+	if opt.MaxSamples == 0 {
+		opt.MaxSamples = DefaultMaxSamples
+	}
+	if opt.MaxSamples < 0 {
+		return nil, fmt.Errorf("simulate: sample budget must be positive, got %d", opt.MaxSamples)
+	}
 	if !finite(opt.Tolerance, opt.SpindleRPM, opt.Band[0], opt.Band[1]) || opt.Tolerance < 0 || opt.SpindleRPM < 0 {
 		return nil, fmt.Errorf("simulate: tolerance and spindle speed must be finite and not negative")
 	}
@@ -299,6 +311,10 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 		geoms[i] = g
 		total += g.length
 		from = mv.To
+	}
+	if est := total/opt.Step + float64(len(tp.Moves)); est > float64(opt.MaxSamples) {
+		return nil, fmt.Errorf("simulate: a sampling step of %g mm gives about %.3g samples for %.1f mm of path, more than the budget of %d; use a larger step (≥ %.3g mm)",
+			opt.Step, est, total, opt.MaxSamples, total/float64(opt.MaxSamples)*1.01)
 	}
 	var keep []float32
 	r := t.Radius()
@@ -360,6 +376,8 @@ type simulator struct {
 	prof []Sample
 	sum  Summary
 
+	cache circleCache
+
 	// pending is the stretch of move pg from pt0 to pt1 not yet stamped.
 	pg       *moveGeom
 	pt0, pt1 float64
@@ -369,6 +387,7 @@ type simulator struct {
 	cutAeD, cutPhi float64
 	// moving average window over cutting samples
 	win    []winItem
+	winAt  int // first live item of win
 	winSum float64
 	winLen float64
 }
@@ -378,6 +397,7 @@ type winItem struct{ l, v float64 }
 func (s *simulator) flush() {
 	if s.pg != nil && s.pt1 > s.pt0 {
 		s.m.stamp(s.pg.piece(s.pt0, s.pt1), s.r)
+		s.cache.reset()
 	}
 	if s.pg != nil {
 		s.pt0 = s.pt1
@@ -386,6 +406,7 @@ func (s *simulator) flush() {
 
 func (s *simulator) move(ctx context.Context, i int, g *moveGeom) error {
 	s.flush()
+	s.cache.reset()
 	s.pg, s.pt0, s.pt1 = g, 0, 0
 	m := s.m
 	top := m.top
@@ -432,7 +453,10 @@ func (s *simulator) move(ctx context.Context, i int, g *moveGeom) error {
 		if !steep {
 			dir = g.tangent(tk)
 		}
-		e := m.Engage(s.t, geom.Point3{X: p.X, Y: p.Y, Z: z}, dir)
+		var e Engagement
+		if z < top-epsZ {
+			e = m.engage(s.t, geom.Point3{X: p.X, Y: p.Y, Z: z}, dir, &s.cache)
+		}
 		var bottom, above float64
 		if g.descending || rapid {
 			bottom, above = m.diskMaterial(p, z, s.r)
@@ -552,7 +576,7 @@ func (s *simulator) account(p *Sample) {
 		}
 	}
 	if p.Class != Cut {
-		s.win, s.winSum, s.winLen = s.win[:0], 0, 0
+		s.win, s.winAt, s.winSum, s.winLen = s.win[:0], 0, 0, 0
 		return
 	}
 	aed := p.AE / s.t.Diameter
@@ -573,10 +597,14 @@ func (s *simulator) account(p *Sample) {
 	s.win = append(s.win, winItem{p.Step, aed})
 	s.winSum += p.Step * aed
 	s.winLen += p.Step
-	for len(s.win) > 1 && s.winLen-s.win[0].l >= 1-1e-9 {
-		s.winSum -= s.win[0].l * s.win[0].v
-		s.winLen -= s.win[0].l
-		s.win = s.win[1:]
+	for len(s.win)-s.winAt > 1 && s.winLen-s.win[s.winAt].l >= 1-1e-9 {
+		s.winSum -= s.win[s.winAt].l * s.win[s.winAt].v
+		s.winLen -= s.win[s.winAt].l
+		s.winAt++
+	}
+	if s.winAt > 1024 {
+		s.win = append(s.win[:0], s.win[s.winAt:]...)
+		s.winAt = 0
 	}
 	if s.winLen > 0 {
 		sum.MaxEng = math.Max(sum.MaxEng, s.winSum/s.winLen)

@@ -23,22 +23,22 @@ type piece struct {
 // tells whether the cell centre is within the tool radius and zc is the
 // lowest tool bottom that reached it (or passed by it).
 func (m *Material) cellUpdate(k int, f float32, cut bool, zc float32) {
-	h := m.h[k]
+	h := m.c[k].h
 	if cut {
 		switch {
 		case zc < h-epsZ:
-			m.h[k] = zc
-			m.a[k] = f
-			m.b[k] = m.s[k]
+			m.c[k].h = zc
+			m.c[k].a = f
+			m.c[k].b = m.c[k].s
 		case zc <= h+epsZ:
-			if f > m.a[k] {
-				m.a[k] = f
+			if f > m.c[k].a {
+				m.c[k].a = f
 			}
 		}
 		return
 	}
-	if zc < h-epsZ && f > m.b[k] {
-		m.b[k] = f
+	if zc < h-epsZ && f > m.c[k].b {
+		m.c[k].b = f
 	}
 }
 
@@ -136,18 +136,23 @@ func (m *Material) stampLine(p piece, r float64) float64 {
 		for i := i0; i < i1; i++ {
 			dx := m.cx(i) - a.X
 			t0 := dx*u.X + dy*u.Y
-			t := t0
-			if t < 0 {
-				t = 0
-			} else if t > L {
-				t = L
+			var d, d2 float64
+			if t0 >= 0 && t0 <= L {
+				// Beside the segment the distance is the perpendicular offset.
+				d = math.Abs(dx*n.X + dy*n.Y)
+				d2 = d * d
+			} else {
+				t := 0.0
+				if t0 > L {
+					t = L
+				}
+				ex, ey := dx-t*u.X, dy-t*u.Y
+				d2 = ex*ex + ey*ey
+				d = math.Sqrt(d2)
 			}
-			ex, ey := dx-t*u.X, dy-t*u.Y
-			d2 := ex*ex + ey*ey
-			if d2 > R*R {
+			if d > R {
 				continue
 			}
-			d := math.Sqrt(d2)
 			f := float32(r - d)
 			k := row + i
 			if d2 > r2 {
@@ -169,7 +174,7 @@ func (m *Material) stampLine(p piece, r float64) float64 {
 					}
 				}
 			}
-			if h := m.h[k]; zc < h-epsZ && !math.IsInf(float64(h), -1) {
+			if h := m.c[k].h; zc < h-epsZ && !math.IsInf(float64(h), -1) {
 				vol += float64(h-zc) * ca
 			}
 			m.cellUpdate(k, f, true, zc)
@@ -251,7 +256,7 @@ func (m *Material) stampArc(p piece, r float64) float64 {
 				if dz != 0 {
 					zc = float32(arcCutZ(qx, qy, th0, sw, rad, r, za, zb))
 				}
-				if h := m.h[k]; zc < h-epsZ && !math.IsInf(float64(h), -1) {
+				if h := m.c[k].h; zc < h-epsZ && !math.IsInf(float64(h), -1) {
 					vol += float64(h-zc) * ca
 				}
 				m.cellUpdate(k, f, true, zc)
