@@ -571,3 +571,56 @@ func TestMemoryOf300x200Level(t *testing.T) {
 		t.Errorf("%d bytes for %d × %d cells", m.Bytes(), nx, ny)
 	}
 }
+
+// TestSecondLevel: on a second step-down level the wall of the previous
+// pass of that level, and the stock edge, bound the cut as on the first
+// level: φ = arccos(1 − ae/r) (Altintas 2012, ch. 2, from memory) and ap is
+// the step-down (geometry).
+func TestSecondLevel(t *testing.T) {
+	r := tool10.Radius()
+	const ae, step = 0.75, 2.0
+	want := math.Acos(1-ae/r) * 180 / math.Pi
+	t.Run("beside previous pass", func(t *testing.T) {
+		m, err := NewMaterial(rectShape(0, -40, 120, 40), 0, MaterialOptions{})
+		noErr(t, err)
+		tp := &geom.Toolpath{Start: geom.Point3{X: -10, Y: 0, Z: 5}}
+		for _, z := range []float64{-step, -2 * step} {
+			tp.Moves = append(tp.Moves,
+				line(geom.Rapid, -10, 0, z, 0), line(geom.Feed, 130, 0, z, 1000),
+				line(geom.Rapid, 130, 0, 5, 0), line(geom.Rapid, -10, ae, 5, 0),
+				line(geom.Rapid, -10, ae, z, 0), line(geom.Feed, 130, ae, z, 1000),
+				line(geom.Rapid, 130, ae, 5, 0), line(geom.Rapid, -10, 0, 5, 0))
+		}
+		res, err := Simulate(context.Background(), m, tool10, tp, SimOptions{})
+		noErr(t, err)
+		if n := len(res.Summary.RapidViolations); n != 0 {
+			t.Fatalf("%d rapid violations: %+v", n, res.Summary.RapidViolations)
+		}
+		ss := steady(res.Profile, 13, 30, 90)
+		if len(ss) == 0 {
+			t.Fatal("no samples")
+		}
+		for _, s := range ss {
+			near(t, "φ°", s.PhiDeg(), want, 0.5)
+			rel(t, "ae", s.AE, ae, 0.01)
+			near(t, "ap", s.AP, step, 0.01)
+		}
+	})
+	t.Run("along stock edge", func(t *testing.T) {
+		m, err := NewMaterial(rectShape(0, -40, 120, 40), 0, MaterialOptions{})
+		noErr(t, err)
+		y := 40 + r - ae
+		tp := &geom.Toolpath{Start: geom.Point3{X: -10, Y: y, Z: -step}, Moves: []geom.Move{
+			line(geom.Feed, 130, y, -step, 1000),
+			line(geom.Feed, 130, y, -2*step, 1000),
+			line(geom.Feed, -10, y, -2*step, 1000), // back the other way: up milling
+		}}
+		res, err := Simulate(context.Background(), m, tool10, tp, SimOptions{})
+		noErr(t, err)
+		for _, s := range steady(res.Profile, 2, 30, 90) {
+			near(t, "φ°", s.PhiDeg(), want, 0.5)
+			rel(t, "ae", s.AE, ae, 0.01)
+			near(t, "ap", s.AP, step, 0.01)
+		}
+	})
+}

@@ -130,13 +130,23 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 		sc := tab[k%(2*engageSamples)]
 		sn := sc[0]*cd + sc[1]*sd
 		cs := sc[1]*cd - sc[0]*sd
-		v, h := m.field(at.X+sn*ux+cs*nx, at.Y+sn*uy+cs*ny, zt)
-		return v + tol, h
+		px, py := at.X+sn*ux+cs*nx, at.Y+sn*uy+cs*ny
+		v, h, lo := m.field(px, py, zt)
+		v += tol
+		if v < 0 && lo < h-epsZ {
+			h = m.topAt(px, py, zt, lo, h, tol)
+		}
+		return v, h
 	}
 	lookK := func(k int) (float32, float32) {
 		sc := tab[k%(2*engageSamples)]
-		v, h := m.field(at.X+sc[0]*ux+sc[1]*nx, at.Y+sc[0]*uy+sc[1]*ny, zt)
-		return v + tol, h
+		px, py := at.X+sc[0]*ux+sc[1]*nx, at.Y+sc[0]*uy+sc[1]*ny
+		v, h, lo := m.field(px, py, zt)
+		v += tol
+		if v < 0 && lo < h-epsZ {
+			h = m.topAt(px, py, zt, lo, h, tol)
+		}
+		return v, h
 	}
 	if full || (cache != nil && !cache.move(at, u, r)) {
 		cache = nil

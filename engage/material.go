@@ -357,13 +357,13 @@ func (m *Material) value(k int, zt float32) float32 {
 }
 
 // field interpolates the boundary field at (x, y) for tool-bottom height zt
-// and returns the highest material top among the four cells around it
-// (−Inf when none).
-func (m *Material) field(x, y float64, zt float32) (v, hmax float32) {
+// and returns the highest and lowest material tops among the four cells
+// around it (−Inf when none).
+func (m *Material) field(x, y float64, zt float32) (v, hmax, hlo float32) {
 	gx := (x-m.x0)*m.inv - 0.5
 	gy := (y-m.y0)*m.inv - 0.5
 	if !(gx >= 0 && gy >= 0 && gx < float64(m.nx-1) && gy < float64(m.ny-1)) {
-		return m.band, float32(math.Inf(-1))
+		return m.band, float32(math.Inf(-1)), float32(math.Inf(-1))
 	}
 	i, j := int(gx), int(gy)
 	fx, fy := float32(gx-float64(i)), float32(gy-float64(j))
@@ -372,34 +372,67 @@ func (m *Material) field(x, y float64, zt float32) (v, hmax float32) {
 	r1 := m.c[k+m.nx : k+m.nx+2 : k+m.nx+2]
 	c00, c10, c01, c11 := &r0[0], &r0[1], &r1[0], &r1[1]
 	var v00, v10, v01, v11 float32
-	hmax = float32(math.Inf(-1))
+	inf := float32(math.Inf(1))
+	hmax, hlo = float32(math.Inf(-1)), inf
 	if c00.h <= zt {
 		v00 = c00.a
 	} else {
 		v00 = c00.b
-		hmax = c00.h
+		hmax, hlo = c00.h, c00.h
 	}
 	if c10.h <= zt {
 		v10 = c10.a
 	} else {
 		v10 = c10.b
-		hmax = max(hmax, c10.h)
+		hmax, hlo = max(hmax, c10.h), min(hlo, c10.h)
 	}
 	if c01.h <= zt {
 		v01 = c01.a
 	} else {
 		v01 = c01.b
-		hmax = max(hmax, c01.h)
+		hmax, hlo = max(hmax, c01.h), min(hlo, c01.h)
 	}
 	if c11.h <= zt {
 		v11 = c11.a
 	} else {
 		v11 = c11.b
-		hmax = max(hmax, c11.h)
+		hmax, hlo = max(hmax, c11.h), min(hlo, c11.h)
+	}
+	if hlo == inf {
+		hlo = hmax
 	}
 	v0 := v00 + (v10-v00)*fx
 	v1 := v01 + (v11-v01)*fx
-	return v0 + (v1-v0)*fy, hmax
+	return v0 + (v1-v0)*fy, hmax, hlo
+}
+
+// topAt returns the top of the material at (x, y), a point known to be in
+// material at tool height zt, when the cells around it hold material of
+// different heights between lo and hi: the highest level at which the
+// point itself is still inside material by the sub-cell field.
+func (m *Material) topAt(x, y float64, zt, lo, hi, tol float32) float32 {
+	gx := (x-m.x0)*m.inv - 0.5
+	gy := (y-m.y0)*m.inv - 0.5
+	if !(gx >= 0 && gy >= 0 && gx < float64(m.nx-1) && gy < float64(m.ny-1)) {
+		return hi
+	}
+	k := int(gy)*m.nx + int(gx)
+	hs := [4]float32{m.c[k].h, m.c[k+1].h, m.c[k+m.nx].h, m.c[k+m.nx+1].h}
+	h := hi
+	for {
+		v, _, _ := m.field(x, y, h-2*epsZ)
+		if v+tol < 0 || h <= lo {
+			return h
+		}
+		// Next lower height among the cells, still above the tool.
+		next := lo
+		for _, c := range hs {
+			if c < h-epsZ && c > zt && c > next {
+				next = c
+			}
+		}
+		h = next
+	}
 }
 
 // Residual is what is left of a target region after cutting.
