@@ -46,21 +46,28 @@ func (m *Material) Engage(t Tool, at geom.Point3, dir geom.Point) Engagement {
 }
 
 // circleCache remembers the field on the engagement grid between samples of
-// one move, while the material does not change. The field is 1-Lipschitz,
-// so a grid point whose cached |v| exceeds the distance it has moved since
-// (slack) keeps its sign and needs no new lookup.
+// one move, while the material does not change. The field is a distance,
+// and its bilinear interpolant changes by at most √2 times the distance
+// moved, so a grid point whose cached |v| exceeds that bound (slack) keeps
+// its sign and needs no new lookup.
 type circleCache struct {
 	ok    [2*engageSamples + 1]bool
 	v, h  [2*engageSamples + 1]float32
-	slack [2*engageSamples + 1]float32
+	seen  [2*engageSamples + 1]float64 // travel when each value was looked up
+	trav  float64                      // distance the grid has moved so far (translation + r·turn)
 	at    geom.Point3
 	dir   geom.Point
 	valid bool
+	// xs are the boundary crossings of the previous sample, used to start
+	// the root search.
+	xs  [8]float64
+	nxs int
 }
 
 // reset forgets everything (the material changed).
 func (c *circleCache) reset() {
 	c.valid = false
+	c.nxs = 0
 	c.ok = [2*engageSamples + 1]bool{}
 }
 
@@ -77,10 +84,7 @@ func (c *circleCache) move(at geom.Point3, dir geom.Point, r float64) bool {
 		return true
 	}
 	turn := math.Abs(math.Atan2(c.dir.Cross(dir), c.dir.Dot(dir)))
-	d := float32(at.XY().Dist(c.at.XY()) + r*turn + 1e-6)
-	for k := range c.slack {
-		c.slack[k] += d
-	}
+	c.trav += at.XY().Dist(c.at.XY()) + r*turn + 1e-6
 	c.at, c.dir = at, dir
 	return true
 }
@@ -158,7 +162,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 			return lookK(k)
 		}
 		if cache.ok[k] {
-			v, sl := cache.v[k], cache.slack[k]
+			v, sl := cache.v[k], float32(math.Sqrt2*(cache.trav-cache.seen[k]))
 			if v > sl+1e-4 {
 				return v - sl, cache.h[k]
 			}
@@ -167,19 +171,64 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 			}
 		}
 		v, h := lookK(k)
-		cache.ok[k], cache.v[k], cache.h[k], cache.slack[k] = true, v, h, 0
+		cache.ok[k], cache.v[k], cache.h[k], cache.seen[k] = true, v, h, cache.trav
 		return v, h
 	}
-	// The field is close to a distance (1-Lipschitz), so no boundary lies
-	// within |v| of a sample: grid points closer than that are skipped.
+	// The field is close to a distance (its interpolant √2-Lipschitz), so no
+	// boundary lies within |v|/√2 of a sample: grid points closer than that
+	// along the circle are skipped.
 	skip := func(v float32) int {
 		k := int(0.7 * math.Abs(float64(v)) / (r * d))
 		return max(k, 1)
 	}
+	var illinois func(a, b float64, va, vb float32) float64
 	// root finds the sign change of the field between psi a (va) and b
 	// (vb) by regula falsi with the Illinois modification, which stays
 	// fast where the field has a kink (two cuts meeting).
+	var xs [8]float64
+	nxs := 0
 	root := func(a, b float64, va, vb float32) float64 {
+		x := illinois(a, b, va, vb)
+		if nxs < len(xs) {
+			xs[nxs] = x
+			nxs++
+		}
+		return x
+	}
+	illinois = func(a, b float64, va, vb float32) float64 {
+		if cache != nil {
+			// Start from the crossing of the previous sample in (a, b).
+			for _, x0 := range cache.xs[:cache.nxs] {
+				if x0 <= a || x0 >= b {
+					continue
+				}
+				const w = 3e-4
+				v0, _ := eval(x0)
+				if v0 == 0 {
+					return x0
+				}
+				if (v0 < 0) == (va < 0) {
+					a, va = x0, v0
+					if x1 := x0 + w; x1 < b {
+						if v1, _ := eval(x1); (v1 < 0) != (va < 0) {
+							b, vb = x1, v1
+						} else {
+							a, va = x1, v1
+						}
+					}
+				} else {
+					b, vb = x0, v0
+					if x1 := x0 - w; x1 > a {
+						if v1, _ := eval(x1); (v1 < 0) != (vb < 0) {
+							a, va = x1, v1
+						} else {
+							b, vb = x1, v1
+						}
+					}
+				}
+				break
+			}
+		}
 		side := 0
 		for it := 0; it < 10; it++ {
 			x := a + (b-a)*float64(va/(va-vb))
@@ -239,8 +288,9 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	start := 0.0 // start of the current material arc, when the field is negative
 	// scan handles the interval [a, b] with field values va and vb: a sign
 	// change ends or starts an arc; two non-negative ends closer to zero
-	// than the chord allows (the field is 1-Lipschitz) may hide a thin
-	// sliver of material, so the interval is split a few times.
+	// than the chord allows may hide a thin
+	// sliver of material (chord ≤ r·(b−a), slope ≤ √2), so the interval is
+	// split a few times.
 	var scan func(a, b float64, va, vb float32, depth int)
 	scan = func(a, b float64, va, vb float32, depth int) {
 		switch {
@@ -249,7 +299,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 			addArc(start, root(a, b, va, vb))
 		case vb < 0:
 			start = root(a, b, va, vb)
-		case depth > 0 && float64(va+vb) < r*(b-a):
+		case depth > 0 && float64(va+vb) < math.Sqrt2*r*(b-a):
 			mid := (a + b) / 2
 			vm, hm := eval(mid)
 			if vm < 0 {
@@ -281,6 +331,9 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	}
 	if pv < 0 {
 		addArc(start, span)
+	}
+	if cache != nil {
+		cache.xs, cache.nxs = xs, nxs
 	}
 	if phi <= 0 {
 		return e
