@@ -77,6 +77,7 @@ type planner struct {
 	// into it, so it counts as air for descents.
 	keepGrown geom.Shape
 	baseAir   geom.Shape // outside and keepGrown
+	keepIx    *edgeIndex // outline of the stock no feature cuts
 	bases     []geom.Shape
 
 	cleared []clearedSet
@@ -133,6 +134,7 @@ func newPlanner(ctx context.Context, job *Job, opt Options) (*planner, error) {
 	}
 	p.baseAir = p.outside
 	if len(keep) > 0 {
+		p.keepIx = newEdgeIndex(keep)
 		if p.keepGrown, err = offset.Offset(keep, p.a+p.guard+2*p.margin, p.tol); err != nil {
 			return nil, fmt.Errorf("walls: %w", err)
 		}
@@ -742,6 +744,9 @@ func (p *planner) liftToClearance() {
 	if p.atDepth {
 		q := p.b.pos.XY()
 		h := p.airHeight(q, p.b.pos.Z)
+		if p.nearKeep(q) {
+			h = math.Max(h, p.top)
+		}
 		if h > p.b.pos.Z+1e-9 {
 			p.b.feed(geom.Lift, p3(q, math.Min(h+0.2, p.clear)), p.feed)
 		}
@@ -761,11 +766,26 @@ func (p *planner) descend(q geom.Point, z float64) float64 {
 	p.b.rapid(p3(q, p.clear))
 	h := p.airHeight(q, z)
 	hz := math.Min(h+retract, p.clear)
+	if p.nearKeep(q) {
+		// Beside a wall rapids stay above the top: the tool passes the
+		// wall at the allowance only, too close for a rapid.
+		hz = math.Min(math.Max(h, p.top)+retract, p.clear)
+	}
 	p.b.rapid(p3(q, hz))
 	if h < hz {
 		p.b.feed(geom.Entry, p3(q, h), p.entryFeed)
 	}
 	return h
+}
+
+// nearKeep reports whether the tool's disk at q comes within twice the
+// margin of stock that no feature cuts.
+func (p *planner) nearKeep(q geom.Point) bool {
+	if p.keepIx == nil {
+		return false
+	}
+	lim := p.r + 2*p.margin
+	return p.keepIx.clearance(q, q, lim+1) < lim
 }
 
 // airHeight returns the lowest of z, the cleared levels above it and the
