@@ -142,6 +142,9 @@ type FeatureComparison struct {
 	// that lies in narrow channels (offset.Split with a disk of the tool
 	// radius: zones of the feature narrower than two tool diameters).
 	ChannelShare float64 `json:"channel_share"`
+	// Width is the diameter of the largest circle inside the feature's
+	// region within the stock, mm: the width of a slot.
+	Width float64 `json:"width_mm"`
 	// Layered and Banded are the strategies' results.
 	Layered FeatureResult `json:"layered"`
 	Banded  FeatureResult `json:"banded"`
@@ -371,11 +374,11 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 			Layered:   lev.features[fi],
 			Banded:    bev.features[fi],
 		}
-		share, err := channelShare(ctx, job, f, opts.Layered.Tolerance)
+		share, width, err := featureShape(ctx, job, f, opts.Layered.Tolerance)
 		if err != nil {
 			return nil, fmt.Errorf("compare: feature %q: %w", f.Name, err)
 		}
-		fc.ChannelShare = share
+		fc.ChannelShare, fc.Width = share, width
 		decide(&fc, c.Models)
 		if fc.Recommended == StrategyLayered {
 			c.Totals.BestS += fc.Layered.CycleS
@@ -707,23 +710,27 @@ func (fr *FeatureResult) split(moves []geom.Move, info []moveInfo, first, end in
 	}
 }
 
-// channelShare returns the share of the feature's tool-centre domain at
-// the floor that lies in channels narrower than two tool diameters.
-func channelShare(ctx context.Context, job *Job, f Feature, tol float64) (float64, error) {
-	if tol <= 0 {
-		tol = DefaultTolerance
+// featureShape returns the share of the feature's tool-centre domain at
+// the floor that lies in channels narrower than two tool diameters, and
+// the diameter of the largest circle inside the feature within the stock.
+func featureShape(ctx context.Context, job *Job, f Feature, tol float64) (share, width float64, err error) {
+	tol = math.Max(tol, 0.01)
+	if in, err := geom.Intersection(f.Region, job.Stock.Outline); err == nil && len(in) > 0 {
+		if _, rad, _, err := offset.DeepestPointOfShape(in, tol); err == nil {
+			width = 2 * rad
+		}
 	}
 	r := job.Tool.Radius()
-	dom, err := offset.Offset(f.Region, -(r + job.Cut.Allowance), math.Max(tol, 0.01))
+	dom, err := offset.Offset(f.Region, -(r + job.Cut.Allowance), tol)
 	if err != nil {
-		return 0, fmt.Errorf("tool-centre domain: %w", err)
+		return 0, width, fmt.Errorf("tool-centre domain: %w", err)
 	}
 	if len(dom) == 0 {
-		return 0, nil
+		return 0, width, nil
 	}
-	z, err := offset.Split(ctx, dom, r, math.Max(tol, 0.01), offset.SplitOptions{})
+	z, err := offset.Split(ctx, dom, r, tol, offset.SplitOptions{})
 	if err != nil {
-		return 0, fmt.Errorf("bays and channels: %w", err)
+		return 0, width, fmt.Errorf("bays and channels: %w", err)
 	}
 	var bays, chans float64
 	for _, b := range z.Bays {
@@ -733,9 +740,9 @@ func channelShare(ctx context.Context, job *Job, f Feature, tol float64) (float6
 		chans += geom.Shape{ch.Region}.Area()
 	}
 	if bays+chans <= 0 {
-		return 0, nil
+		return 0, width, nil
 	}
-	return chans / (bays + chans), nil
+	return chans / (bays + chans), width, nil
 }
 
 // heights returns the material top of every cell of m, NaN where there is

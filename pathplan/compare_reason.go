@@ -50,6 +50,11 @@ func decide(fc *FeatureComparison, models []string) {
 		percent(b.AccelShare), percent(l.AccelShare))
 	levels := fmt.Sprintf("banded cuts %s where layered needs %s", plural(b.Levels, "level"), plural(l.Levels, "level"))
 
+	slim := ""
+	if d := fc.DepthPerD; d > 0 && fc.Width > 0 {
+		slim = fmt.Sprintf("it is only %s mm wide (%.1f × D), so banded must work it in narrow loops with many turns", trim(fc.Width), fc.Width/(fc.Depth/d))
+	}
+	narrowWidth := slim != "" && fc.Width < 2.5*fc.Depth/fc.DepthPerD
 	deep := fc.DepthPerD >= 1
 	narrow := fc.ChannelShare >= 0.25
 	accelHeavy := b.AccelShare > l.AccelShare+0.05
@@ -69,6 +74,9 @@ func decide(fc *FeatureComparison, models []string) {
 		} else {
 			pro = append(pro, bays)
 		}
+		if narrowWidth {
+			con = append(con, slim)
+		}
 		if !accelHeavy {
 			pro = append(pro, accel)
 		}
@@ -85,6 +93,8 @@ func decide(fc *FeatureComparison, models []string) {
 		}
 		if narrow {
 			pro = append(pro, channels)
+		} else if narrowWidth {
+			pro = append(pro, slim)
 		} else {
 			con = append(con, bays)
 		}

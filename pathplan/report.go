@@ -179,7 +179,6 @@ func (r *reportWriter) feature(i int, f FeatureComparison) {
 	}
 	view := r.viewBounds(i, l, b)
 	cmax := engagementScaleMax(r.c.Band)
-	maxS := math.Max(l.PathLength, b.PathLength)
 	maxT := math.Max(l.Time, b.Time)
 	maxV := 0.0
 	for _, d := range []*Detail{l, b} {
@@ -196,7 +195,7 @@ func (r *reportWriter) feature(i int, f FeatureComparison) {
 		r.p("<div class=\"col\" data-strategy=\"%s\">\n<h3>%s%s <span class=\"tag\">%s, %s</span></h3>\n",
 			esc(s.Strategy), esc(s.Strategy), badge, esc(FormatSeconds(s.CycleS)), esc(plural(s.Levels, "level")))
 		r.topView(i, s, view, cmax)
-		r.engagementPlot(s, maxS)
+		r.engagementPlot(s, s.Detail.PathLength)
 		r.speedPlot(s, maxT, maxV)
 		r.wearPlot(s)
 		r.p("</div>\n")
@@ -378,9 +377,12 @@ func (r *reportWriter) legend(cmax float64) {
 	r.p("<path d=\"M%s 8 V4 H%s V8\" fill=\"none\" stroke=\"#b00020\" stroke-width=\"1.5\"/>\n", n(b0), n(b1))
 	for _, v := range ticks(0, cmax, 5) {
 		x := x0 + bw*v/cmax
-		r.p("<line x1=\"%s\" y1=\"24\" x2=\"%s\" y2=\"28\" stroke=\"#333\"/><text x=\"%s\" y=\"40\" font-size=\"11\" fill=\"#333\" text-anchor=\"middle\">%s</text>\n", n(x), n(x), n(x), trim(v))
+		label := trim(v)
+		if v >= cmax*(1-1e-9) {
+			label = "≥ " + label
+		}
+		r.p("<line x1=\"%s\" y1=\"24\" x2=\"%s\" y2=\"28\" stroke=\"#333\"/><text x=\"%s\" y=\"40\" font-size=\"11\" fill=\"#333\" text-anchor=\"middle\">%s</text>\n", n(x), n(x), n(x), label)
 	}
-	r.p("<text x=\"%s\" y=\"40\" font-size=\"11\" fill=\"#333\">and more</text>\n", n(x0+bw+8))
 	r.p("<text x=\"%s\" y=\"54\" font-size=\"11\" fill=\"#b00020\" text-anchor=\"middle\">band %s–%s</text>\n", n((b0+b1)/2), trim(r.c.Band[0]), trim(r.c.Band[1]))
 	lx := x0 + bw + 80
 	r.p("<line x1=\"%s\" y1=\"17\" x2=\"%s\" y2=\"17\" stroke=\"#b9c3cc\" stroke-width=\"2\"/><text x=\"%s\" y=\"21\" font-size=\"11\" fill=\"#333\">feed through air</text>\n", n(lx), n(lx+24), n(lx+30))
@@ -414,6 +416,7 @@ func (r *reportWriter) plot(class, title, xlabel, ylabel string, xmax, ymax floa
 
 // engagementPlot draws ae/D along the path with the band.
 func (r *reportWriter) engagementPlot(s FeatureResult, maxS float64) {
+	maxS = math.Max(maxS, 1)
 	d := s.Detail
 	unit, div := "mm", 1.0
 	if maxS > 5000 {
@@ -618,8 +621,12 @@ func ticks(lo, hi float64, n int) []float64 {
 	}
 	st := niceStep((hi - lo) / float64(n))
 	var out []float64
-	for v := math.Ceil(lo/st-1e-9) * st; v <= hi*(1+1e-9); v += st {
-		out = append(out, math.Round(v/st)*st)
+	for k := math.Ceil(lo/st - 1e-9); k*st <= hi*(1+1e-9); k++ {
+		v := k * st
+		if v == 0 {
+			v = 0 // no negative zero
+		}
+		out = append(out, v)
 	}
 	return out
 }
