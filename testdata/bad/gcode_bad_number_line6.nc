@@ -1,0 +1,6 @@
+%
+(invented bad program)
+G21 G90 G17
+G0 Z5
+G0 X10 Y10
+G1 X1.2.3 F300

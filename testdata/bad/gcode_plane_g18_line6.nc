@@ -1,0 +1,7 @@
+%
+(invented bad program)
+G21 G90 G17
+G0 Z5
+G0 X10 Y10
+G18
+G1 X20 Z-1 F300
