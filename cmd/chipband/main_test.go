@@ -29,7 +29,7 @@ func TestUsage(t *testing.T) {
 	}
 }
 
-func testEveryCommandHasHelp(t *testing.T) {
+func TestEveryCommandHasHelp(t *testing.T) {
 	for name := range commands() {
 		code, _, stderr := runCLI(t, name, "--help")
 		if code != 0 {
