@@ -17,6 +17,9 @@ type CheckInput struct {
 	Removed []Target
 	Targets []Target
 	// Keep is material that must remain (part walls, islands); optional.
+	// When it is empty and Targets are given, Check uses
+	// KeepOf(Stock, the target regions): the stock less every target,
+	// islands included.
 	Keep geom.Shape
 	// Band is the radial-engagement band as ae/D; zero for none.
 	Band       [2]float64
@@ -44,9 +47,19 @@ func Check(ctx context.Context, in CheckInput, t Tool, tp *geom.Toolpath) (*Resu
 			return nil, fmt.Errorf("check: removed region %d %q: %w", i, r.Name, err)
 		}
 	}
+	keep := in.Keep
+	if len(keep) == 0 && len(in.Targets) > 0 {
+		regions := make([]geom.Shape, len(in.Targets))
+		for i, tg := range in.Targets {
+			regions[i] = tg.Region
+		}
+		if keep, err = KeepOf(in.Stock, regions); err != nil {
+			return nil, fmt.Errorf("check: %w", err)
+		}
+	}
 	res, err := Simulate(ctx, m, t, tp, SimOptions{
 		Step: in.Step, Band: in.Band, SpindleRPM: in.SpindleRPM,
-		Keep: in.Keep, Targets: in.Targets, Progress: in.Progress,
+		Keep: keep, Targets: in.Targets, Progress: in.Progress,
 	})
 	if err != nil {
 		return nil, fmt.Errorf("check: %w", err)

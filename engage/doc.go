@@ -32,6 +32,10 @@
 // program check needs: engagement maxima and means, the share of cutting
 // length inside the radial-engagement band, air cutting, plunges, rapids
 // through material (always reported), wall gouges and uncut material.
+// Wall and floor gouges are measured from the geometry of the path against
+// the Keep shape and the target regions (exact distances from the
+// tool-centre lines and arcs to their edges, through a bucket index), not
+// from the grid; the grid serves material removal and engagement.
 //
 // Units: millimetres, mm/min for feeds, rpm for spindle speed, radians for
 // angles unless a name says degrees, mm³/min for material-removal rates,

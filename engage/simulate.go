@@ -91,7 +91,12 @@ type SimOptions struct {
 	SpindleRPM float64    // spindle speed for chip thickness (0: chip thickness not computed)
 	// Keep is material that must remain (part walls, islands) at every
 	// height below the stock top; intrusions of the tool into it are
-	// reported as gouges.
+	// reported as gouges. The gouge is measured from the geometry of the
+	// path, not the material grid: for each stretch of a move below the
+	// top, r less the exact distance from the tool-centre path (line or
+	// arc) to the Keep boundary, or r plus the centre's depth inside Keep
+	// (then checked every Step). Intrusions below 1e-6 mm are rounding and
+	// not reported.
 	Keep geom.Shape
 	// Targets are regions to clear to their floors; the material left in
 	// them is reported.
@@ -137,7 +142,7 @@ type Summary struct {
 	BeyondFlute     float64     `json:"beyond_flute"`     // path length with ap above the flute length, mm
 	Volume          float64     `json:"volume"`           // material removed (sum of the sample volumes), mm³
 
-	MaxGouge  float64     `json:"max_gouge"`  // deepest intrusion into the Keep shape, mm
+	MaxGouge  float64     `json:"max_gouge"`  // deepest intrusion into the Keep shape, mm (exact geometry, see SimOptions.Keep)
 	GougeAt   geom.Point3 `json:"gouge_at"`   // where it happens
 	GougeMove int         `json:"gouge_move"` // in which move (−1 when none)
 
@@ -316,13 +321,13 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 		return nil, fmt.Errorf("simulate: a sampling step of %g mm gives about %.3g samples for %.1f mm of path, more than the budget of %d; use a larger step (≥ %.3g mm)",
 			opt.Step, est, total, opt.MaxSamples, total/float64(opt.MaxSamples)*1.01)
 	}
-	var keep []float32
 	r := t.Radius()
+	sim := simulator{m: m, t: t, r: r, opt: opt, total: total}
 	if len(opt.Keep) > 0 {
 		if err := checkShape(opt.Keep, "keep"); err != nil {
 			return nil, fmt.Errorf("simulate: %w", err)
 		}
-		keep = m.signedDistance(opt.Keep.Normalized(), m.fullWindow(), r+float64(m.band))
+		sim.keep = &intrusion{ix: newEdgeIndex(opt.Keep, 2*r), r: r, step: opt.Step}
 	}
 	for i, tg := range opt.Targets {
 		if err := checkShape(tg.Region, "target"); err != nil {
@@ -331,9 +336,12 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 		if !finite(tg.Floor) {
 			return nil, fmt.Errorf("simulate: target %d %q: floor must be finite", i, tg.Name)
 		}
+		sim.floors = append(sim.floors, floorCheck{
+			in:    intrusion{ix: newEdgeIndex(tg.Region, 2*r), r: r, step: opt.Step},
+			floor: tg.Floor,
+		})
 	}
 
-	sim := simulator{m: m, t: t, r: r, opt: opt, keep: keep, total: total}
 	sim.sum.RapidViolations = []Violation{}
 	sim.sum.GougeMove = -1
 	sim.sum.Band = opt.Band
@@ -349,12 +357,12 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 	}
 	sim.flush()
 	sim.finish()
-	for _, tg := range opt.Targets {
+	for i, tg := range opt.Targets {
 		res, err := m.Residual(tg.Region, tg.Floor, opt.Tolerance)
 		if err != nil {
 			return nil, fmt.Errorf("simulate: target %q: %w", tg.Name, err)
 		}
-		sim.sum.Targets = append(sim.sum.Targets, TargetResidual{Name: tg.Name, UncutArea: res.UncutArea, MaxAbove: res.MaxAbove, FloorGouge: res.FloorGouge})
+		sim.sum.Targets = append(sim.sum.Targets, TargetResidual{Name: tg.Name, UncutArea: res.UncutArea, MaxAbove: res.MaxAbove, FloorGouge: sim.floors[i].gouge})
 	}
 	if opt.Progress != nil {
 		opt.Progress(total, total)
@@ -364,12 +372,13 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 
 // simulator is the running state of Simulate.
 type simulator struct {
-	m     *Material
-	t     Tool
-	r     float64
-	opt   SimOptions
-	keep  []float32
-	total float64
+	m      *Material
+	t      Tool
+	r      float64
+	opt    SimOptions
+	keep   *intrusion   // the Keep shape, nil without one
+	floors []floorCheck // one per target
+	total  float64
 
 	s    float64 // arc length done
 	n    int     // samples done
@@ -410,6 +419,7 @@ func (s *simulator) move(ctx context.Context, i int, g *moveGeom) error {
 	s.pg, s.pt0, s.pt1 = g, 0, 0
 	m := s.m
 	top := m.top
+	s.gouges(i, g)
 	rapid := g.kind == geom.Rapid
 	if rapid && math.Min(g.za, g.zb) >= top-epsZ {
 		// Above all material: one sample at the end.
@@ -521,35 +531,11 @@ func (s *simulator) move(ctx context.Context, i int, g *moveGeom) error {
 		}
 		s.prevPlunge = plunge
 		s.account(&smp)
-		if s.keep != nil && z < top-epsZ {
-			kv, _ := s.keepAt(p)
-			if g := s.r + float64(kv); g > 1e-3 && g > s.sum.MaxGouge {
-				s.sum.MaxGouge = g
-				s.sum.GougeAt = geom.Point3{X: p.X, Y: p.Y, Z: z}
-				s.sum.GougeMove = i
-			}
-		}
 		if !s.opt.SummaryOnly {
 			s.prof = append(s.prof, smp)
 		}
 	}
 	return nil
-}
-
-// keepAt interpolates the keep field (positive inside the keep shape).
-func (s *simulator) keepAt(p geom.Point) (float32, bool) {
-	m := s.m
-	gx := (p.X-m.x0)*m.inv - 0.5
-	gy := (p.Y-m.y0)*m.inv - 0.5
-	if !(gx >= 0 && gy >= 0 && gx < float64(m.nx-1) && gy < float64(m.ny-1)) {
-		return float32(-s.r - float64(m.band)), false
-	}
-	i, j := int(gx), int(gy)
-	fx, fy := float32(gx-float64(i)), float32(gy-float64(j))
-	k := j*m.nx + i
-	v0 := s.keep[k] + (s.keep[k+1]-s.keep[k])*fx
-	v1 := s.keep[k+m.nx] + (s.keep[k+m.nx+1]-s.keep[k+m.nx])*fx
-	return v0 + (v1-v0)*fy, true
 }
 
 // account adds a sample to the running summary.
