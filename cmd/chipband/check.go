@@ -68,8 +68,8 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 }
 
 // checkInput describes the job's stock and features to the simulator: the
-// walls (stock outside every feature) must stay, the features must be
-// cleared to their floors.
+// features must be cleared to their floors, and the walls (the stock less
+// every feature, engage.KeepOf) must stay.
 func checkInput(job *pathplan.Job) (engage.CheckInput, error) {
 	in := engage.CheckInput{
 		Stock:      job.Stock.Outline,
@@ -77,13 +77,14 @@ func checkInput(job *pathplan.Job) (engage.CheckInput, error) {
 		Band:       job.Cut.Band,
 		SpindleRPM: job.Cut.SpindleRPM,
 	}
-	keep := job.Stock.Outline
-	for _, ft := range job.Features {
+	regions := make([]geom.Shape, len(job.Features))
+	for i, ft := range job.Features {
 		in.Targets = append(in.Targets, engage.Target{Name: ft.Name, Region: ft.Region, Floor: job.Stock.Top - ft.Depth})
-		var err error
-		if keep, err = geom.Difference(keep, ft.Region); err != nil {
-			return in, fmt.Errorf("feature %q: %w", ft.Name, err)
-		}
+		regions[i] = ft.Region
+	}
+	keep, err := engage.KeepOf(job.Stock.Outline, regions)
+	if err != nil {
+		return in, fmt.Errorf("walls: %w", err)
 	}
 	in.Keep = keep
 	return in, nil
