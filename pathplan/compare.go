@@ -272,43 +272,9 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 	if err := job.Validate(); err != nil {
 		return nil, err
 	}
-	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band}
-	if c.Band[1] <= 0 {
-		c.Band = [2]float64{0.05, 0.10} // the planners' default band
-	}
-	switch {
-	case opts.Machine != nil:
-		c.Machine, c.MachineSource = *opts.Machine, "option"
-	case job.Machine != nil:
-		c.Machine, c.MachineSource = *job.Machine, "job"
-	default:
-		c.Machine, c.MachineSource = DemoMachine(), "default"
-	}
-	if err := c.Machine.Validate(); err != nil {
-		return nil, &JobError{Msg: fmt.Sprintf("machine: %v", err)}
-	}
-	c.Models = []string{timing.ModelR1.String()}
-	if c.Machine.HasJerk() {
-		c.Models = append(c.Models, timing.ModelJerk.String())
-	}
-	c.Material = opts.Material
-	if c.Material == "" {
-		c.Material = DefaultMaterial
-	}
-	if opts.Kienzle.Kc11 > 0 {
-		if err := opts.Kienzle.Validate(); err != nil {
-			return nil, &JobError{Msg: err.Error()}
-		}
-		c.Kienzle = opts.Kienzle
-		if opts.Material == "" {
-			c.Material = "custom"
-		}
-	} else {
-		k, err := engage.LookupKienzle(c.Material)
-		if err != nil {
-			return nil, &JobError{Msg: err.Error()}
-		}
-		c.Kienzle = k
+	c, err := newComparison(job, opts)
+	if err != nil {
+		return nil, err
 	}
 
 	var mu sync.Mutex
@@ -389,6 +355,69 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 		c.Features = append(c.Features, fc)
 	}
 	return c, nil
+}
+
+// newComparison resolves the machine, the band and the work material of a
+// comparison.
+func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {
+	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band}
+	if c.Band[1] <= 0 {
+		c.Band = [2]float64{0.05, 0.10} // the planners' default band
+	}
+	switch {
+	case opts.Machine != nil:
+		c.Machine, c.MachineSource = *opts.Machine, "option"
+	case job.Machine != nil:
+		c.Machine, c.MachineSource = *job.Machine, "job"
+	default:
+		c.Machine, c.MachineSource = DemoMachine(), "default"
+	}
+	if err := c.Machine.Validate(); err != nil {
+		return nil, &JobError{Msg: fmt.Sprintf("machine: %v", err)}
+	}
+	c.Models = []string{timing.ModelR1.String()}
+	if c.Machine.HasJerk() {
+		c.Models = append(c.Models, timing.ModelJerk.String())
+	}
+	c.Material = opts.Material
+	if c.Material == "" {
+		c.Material = DefaultMaterial
+	}
+	if opts.Kienzle.Kc11 > 0 {
+		if err := opts.Kienzle.Validate(); err != nil {
+			return nil, &JobError{Msg: err.Error()}
+		}
+		c.Kienzle = opts.Kienzle
+		if opts.Material == "" {
+			c.Material = "custom"
+		}
+	} else {
+		k, err := engage.LookupKienzle(c.Material)
+		if err != nil {
+			return nil, &JobError{Msg: err.Error()}
+		}
+		c.Kienzle = k
+	}
+
+	return c, nil
+}
+
+// Evaluate times and simulates a plan made by PlanLayered or PlanBanded the
+// way Compare does, and returns one result per feature. Only the machine,
+// material, cell size and Detail fields of opts are used.
+func Evaluate(ctx context.Context, plan *Plan, opts CompareOptions) ([]FeatureResult, error) {
+	if plan == nil || plan.Job == nil {
+		return nil, errors.New("evaluate: no plan")
+	}
+	c, err := newComparison(plan.Job, opts)
+	if err != nil {
+		return nil, err
+	}
+	ev, err := evaluate(ctx, plan, c, opts, func(string, int, float64) {})
+	if err != nil {
+		return nil, fmt.Errorf("evaluate %s: %w", plan.Strategy, err)
+	}
+	return ev.features, nil
 }
 
 // evaluation is one strategy's timed and simulated plan.
@@ -580,6 +609,45 @@ func evaluate(ctx context.Context, plan *Plan, c *Comparison, opts CompareOption
 	return ev, nil
 }
 
+// TimePlan predicts the cycle time of a plan on machine m without writing
+// G-code: every move becomes a timing block (rapids, lines and arcs as the
+// G-code writer would emit them), tagged with the name of its feature so
+// that Report.Operations gives the time per feature. The spindle start of
+// the written program is not included.
+func TimePlan(ctx context.Context, plan *Plan, m timing.Machine, opt timing.Options) (timing.Report, error) {
+	if plan == nil {
+		return timing.Report{}, errors.New("time plan: no plan")
+	}
+	tp := &plan.Path
+	blocks := make([]timing.Block, 0, len(tp.Moves))
+	from := tp.Start
+	op, oi := "", 0
+	for i, mv := range tp.Moves {
+		for oi < len(tp.Ops) && tp.Ops[oi].First == i {
+			op = tp.Ops[oi].Name
+			oi++
+		}
+		blk := moveBlock(from, mv)
+		blk.Op = op
+		blocks = append(blocks, blk)
+		from = mv.To
+	}
+	return timing.Estimate(ctx, blocks, m, opt)
+}
+
+// moveBlock returns the timing block of move mv from from.
+func moveBlock(from geom.Point3, mv geom.Move) timing.Block {
+	a := [3]float64{from.X, from.Y, from.Z}
+	b := [3]float64{mv.To.X, mv.To.Y, mv.To.Z}
+	switch {
+	case mv.Kind == geom.Rapid:
+		return timing.Rapid(a, b)
+	case mv.Arc:
+		return timing.Arc(a, b, [2]float64{mv.Center.X, mv.Center.Y}, mv.CW, mv.Feed)
+	}
+	return timing.Line(a, b, mv.Feed)
+}
+
 // timeMoves times moves [first, end) of tp as one program under model and,
 // when info is not nil, stores each move's time and speeds in it.
 func timeMoves(ctx context.Context, tp *geom.Toolpath, first, end int, m timing.Machine, model timing.Model, info []moveInfo) (timing.Report, error) {
@@ -593,17 +661,7 @@ func timeMoves(ctx context.Context, tp *geom.Toolpath, first, end int, m timing.
 	blocks := make([]timing.Block, 0, end-first)
 	for i := first; i < end; i++ {
 		mv := tp.Moves[i]
-		a := [3]float64{from.X, from.Y, from.Z}
-		b := [3]float64{mv.To.X, mv.To.Y, mv.To.Z}
-		var blk timing.Block
-		switch {
-		case mv.Kind == geom.Rapid:
-			blk = timing.Rapid(a, b)
-		case mv.Arc:
-			blk = timing.Arc(a, b, [2]float64{mv.Center.X, mv.Center.Y}, mv.CW, mv.Feed)
-		default:
-			blk = timing.Line(a, b, mv.Feed)
-		}
+		blk := moveBlock(from, mv)
 		blk.Line = i + 1 // the move's index, so block times map back
 		blocks = append(blocks, blk)
 		from = mv.To
