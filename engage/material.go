@@ -22,6 +22,10 @@ const (
 	// epsZ is the height tolerance: material thinner than this above the
 	// tool bottom does not count.
 	epsZ = 1e-3
+	// onOutline is the distance within which a cell centre counts as on a
+	// region's outline, mm: far above rounding, far below any machining
+	// tolerance.
+	onOutline = 1e-6
 )
 
 // ErrCellBudget is wrapped by the error NewMaterial returns when the grid
@@ -444,7 +448,17 @@ type Residual struct {
 }
 
 // Residual measures the material left inside region above floor (more than
-// tol) and any cut below floor (more than tol). Cells count by their centre.
+// tol) and any cut below floor (more than tol). Cells count by their centre;
+// a centre within 1e-6 mm of the region's outline is on the boundary of both
+// the region and any cut sized exactly to it, so it counts neither as uncut
+// nor as cut below the floor.
+//
+// Resolution: the areas are those of the cells whose centres lie in the
+// uncut set, so for a set bounded by curves of total length P the figure is
+// within about c·P + 4c² per closed curve of the exact area (c the cell
+// size: every cell the boundary crosses may go either way). Material thinner
+// than half a cell between a cut and the outline may be missed or counted
+// as a whole cell row.
 func (m *Material) Residual(region geom.Shape, floor, tol float64) (Residual, error) {
 	if !finite(floor, tol) || tol < 0 {
 		return Residual{}, fmt.Errorf("residual: floor and tolerance must be finite and the tolerance not negative, got %v and %v", floor, tol)
@@ -458,12 +472,13 @@ func (m *Material) Residual(region geom.Shape, floor, tol float64) (Residual, er
 	if !ok {
 		return res, nil
 	}
-	in := m.inside(region, win)
+	sd := m.signedDistance(region, win, m.cell)
 	ca := m.cell * m.cell
 	lowest := math.Inf(1)
 	for jj := 0; jj < win.ny; jj++ {
 		for ii := 0; ii < win.nx; ii++ {
-			if !in[jj*win.nx+ii] {
+			d := sd[jj*win.nx+ii]
+			if d <= 0 {
 				continue
 			}
 			k := (win.j0+jj)*m.nx + win.i0 + ii
@@ -472,6 +487,9 @@ func (m *Material) Residual(region geom.Shape, floor, tol float64) (Residual, er
 				continue
 			}
 			res.Area += ca
+			if d < onOutline {
+				continue
+			}
 			if h > floor+tol {
 				res.UncutArea += ca
 				res.MaxAbove = math.Max(res.MaxAbove, h-floor)

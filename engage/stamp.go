@@ -137,8 +137,10 @@ func (m *Material) stampLine(p piece, r float64) float64 {
 			dx := m.cx(i) - a.X
 			t0 := dx*u.X + dy*u.Y
 			var d, d2 float64
-			if t0 >= 0 && t0 <= L {
-				// Beside the segment the distance is the perpendicular offset.
+			if L > 0 && t0 >= 0 && t0 <= L {
+				// Beside the segment the distance is the perpendicular offset
+				// (a segment without XY length has no side: its distance is
+				// the one to the point).
 				d = math.Abs(dx*n.X + dy*n.Y)
 				d2 = d * d
 			} else {
