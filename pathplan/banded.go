@@ -43,6 +43,9 @@ type bandedSettings struct {
 	h              float64 // grid spacing, mm
 	safe           float64 // height above a level's top at which rapids stop, mm
 	climbOnly      bool
+	// pitches caches trochoidHeldPitch by loop radius (0.5 mm steps) for
+	// the whole plan.
+	pitches map[int]float64
 }
 
 // bandedSetup derives the banded cut data from the job.
@@ -94,6 +97,7 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 	}
 	s.safe = 1
 	s.climbOnly = opt.ClimbOnly
+	s.pitches = map[int]float64{}
 	return s, nil
 }
 
@@ -141,6 +145,13 @@ func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error
 		if len(dom) == 0 {
 			return nil, &JobError{Feature: f.Name, Msg: "too narrow for this tool"}
 		}
+		for i := range dom {
+			z, err := bandedSplit(ctx, dom[i], st, tol)
+			if err != nil {
+				return nil, fmt.Errorf("banded: feature %q: %w", f.Name, err)
+			}
+			dom[i].zones = z
+		}
 		levels := bandedLevels(top, f.Depth, job.Tool.FluteLength)
 		sum.Levels = levels
 		levelTop := top
@@ -186,6 +197,9 @@ func opLength(tp *geom.Toolpath, first, end int) float64 {
 type bandedComp struct {
 	c    geom.Shape // the domain part (one region)
 	open bool       // part of it lies where the tool is in the air
+	// zones is the part split into bays and channels, nil when it is
+	// cleared by fronts alone (see bandedSplit).
+	zones *offset.Zones
 }
 
 // bandedDomain returns the tool-centre domain of a feature, split into its
@@ -253,6 +267,9 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 
 // bandedLevel plans one domain part at one level and appends its moves.
 func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
+	if comp.zones != nil {
+		return bandedZoned(ctx, b, job, comp, comp.zones, z, levelTop, clear, st, sum)
+	}
 	g := newBandedGrid(comp.c, st.h)
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))
@@ -377,12 +394,13 @@ func bandedEmit(b *builder, pieces []bandedPiece, z, levelTop, clear float64, st
 		case pieceLift:
 			flush()
 			to := pc.pts[len(pc.pts)-1]
-			// The lift starts and ends on swept nodes, where the column
-			// above the level is clear: rapid up and down, feed the last
-			// bit.
+			// The lift starts and ends on swept nodes, but a node's
+			// column may still graze a sliver of the level (the raster
+			// knows the swept region to a node): rapid no lower than
+			// the level's top and feed the rest.
 			b.rapid(p3(b.pos.XY(), clear))
 			b.rapid(p3(to, clear))
-			b.rapid(p3(to, z+0.2))
+			b.rapid(p3(to, levelTop+st.safe))
 			b.feed(geom.Link, p3(to, z), st.entry)
 			sum.Lifts++
 		case pieceBoundary:

@@ -217,3 +217,91 @@ func coveredBy(pts [][2]float64, qx, qy, r float64) bool {
 	}
 	return false
 }
+
+// trochoidHeldPoint returns the tool centre of a trochoid along the x axis
+// whose centre advances only while the tool is on the back half of the loop
+// (in the cut-out slot) and stands still while the front half cuts: loop
+// radius rt, pitch p, loop angle th (radians) counted from the front,
+// counter-clockwise. The centre moves on the back half by p·(1 − cos ψ)/2,
+// ψ = th − π/2, so the velocity is continuous where the halves meet. On
+// the front half the tool then runs on an arc concentric with nothing but
+// the previous loop's front, one pitch behind: the engagement there is the
+// circle–circle value at the apex and falls towards the walls.
+func trochoidHeldPoint(rt, p, th float64) (x, y float64) {
+	psi := th - math.Pi/2
+	k := math.Floor(psi / (2 * math.Pi))
+	f := psi - 2*math.Pi*k
+	adv := 1.0
+	if f < math.Pi {
+		adv = (1 - math.Cos(f)) / 2
+	}
+	return p*(k+adv) + rt*math.Cos(th), rt * math.Sin(th)
+}
+
+// trochoidHeldMaxPhi is trochoidMaxPhi for the loops of
+// trochoidHeldPoint: the largest engagement angle over one steady loop,
+// computed by examining the front half of the tool circle at sampled
+// positions against the material the previous loops left in the strip
+// |y| ≤ rt + r (geometry as in Otkur & Lazoglu 2007, from memory).
+func trochoidHeldMaxPhi(r, rt, p float64) float64 {
+	const nTh, nA = 72, 60
+	// Loops more than four pitches back lie behind the front half of the
+	// tool wherever the pitch is small enough to matter.
+	back := int(math.Ceil(2*(rt+r)/math.Max(p, 1e-6))) + 1
+	if back > 4 {
+		back = 4
+	}
+	base := 2 * math.Pi * float64(back)
+	var prev [][2]float64
+	for i := 0; i <= back*nTh; i++ {
+		x, y := trochoidHeldPoint(rt, p, math.Pi/2+2*math.Pi*float64(i)/nTh)
+		prev = append(prev, [2]float64{x, y})
+	}
+	best := 0.0
+	for i := 0; i < nTh; i++ {
+		th := math.Pi/2 + base + 2*math.Pi*float64(i)/nTh
+		cx, cy := trochoidHeldPoint(rt, p, th)
+		nx, ny := trochoidHeldPoint(rt, p, th+1e-4)
+		ux, uy := nx-cx, ny-cy
+		l := math.Hypot(ux, uy)
+		if l == 0 {
+			continue
+		}
+		ux, uy = ux/l, uy/l
+		n := 0
+		for j := 0; j <= nA; j++ {
+			a := -math.Pi/2 + math.Pi*float64(j)/nA
+			ca, sa := math.Cos(a), math.Sin(a)
+			qx := cx + r*(ux*ca-uy*sa)
+			qy := cy + r*(ux*sa+uy*ca)
+			if math.Abs(qy) > rt+r || coveredBy(prev, qx, qy, r) {
+				continue
+			}
+			n++
+		}
+		best = math.Max(best, math.Pi*float64(n)/float64(nA+1))
+	}
+	return best
+}
+
+// trochoidHeldPitch returns the largest pitch whose held-front loops keep
+// the engagement angle at or below phiMax (bisection), never more than the
+// cutter radius.
+func trochoidHeldPitch(r, rt, phiMax float64) float64 {
+	lo, hi := 0.01*r, r
+	if trochoidHeldMaxPhi(r, rt, hi) <= phiMax {
+		return hi
+	}
+	if trochoidHeldMaxPhi(r, rt, lo) > phiMax {
+		return lo
+	}
+	for i := 0; i < 10; i++ {
+		m := (lo + hi) / 2
+		if trochoidHeldMaxPhi(r, rt, m) <= phiMax {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return lo
+}

@@ -37,6 +37,9 @@ type spiralParams struct {
 	// leadIn bends the start of open passes onto the previous front
 	// (measured worse on the demo job, so off by default).
 	leadIn bool
+	// noBoundary leaves out the last pass along the boundary of c (a bay
+	// whose walls are passed along once the whole domain is cleared).
+	noBoundary bool
 }
 
 // spiralReversed returns a reversed copy of pts.
@@ -152,6 +155,18 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 		g.sweepReached(segs)
 		prev = fronts
 	}
+	if p.noBoundary {
+		return out, pos, nil
+	}
+	out = append(out, spiralBoundary(g, c, &pos, p)...)
+	return out, pos, nil
+}
+
+// spiralBoundary returns the last pass along the boundary of c, linked
+// from *pos, and moves *pos to its end.
+func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams) []bandedPiece {
+	var out []bandedPiece
+	pos := *at
 	// Last pass along the boundary of the domain, climb: outer rings
 	// clockwise, holes counter-clockwise (material on the left).
 	for _, reg := range c {
@@ -175,7 +190,8 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			pos = pts[len(pts)-1]
 		}
 	}
-	return out, pos, nil
+	*at = pos
+	return out
 }
 
 // spiralPrepare smooths a raw contour, extends its open ends to the walls

@@ -80,7 +80,17 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		}
 	}
 	if *reportPath != "" {
-		data, err := json.MarshalIndent(planReport(plan, rep), "", "  ")
+		pr := planReport(plan, rep)
+		if plan.Strategy == "banded" && job.Machine != nil {
+			// Per feature: engagement by simulation, R1 cycle time and
+			// the ratio to the material-removal bound (issue 6).
+			br, err := pathplan.BandedReport(ctx, plan, *job.Machine)
+			if err != nil {
+				return fmt.Errorf("banded report: %w", err)
+			}
+			pr.Banded = br
+		}
+		data, err := json.MarshalIndent(pr, "", "  ")
 		if err != nil {
 			return err
 		}
@@ -103,6 +113,8 @@ type planReportJSON struct {
 	TotalS    *float64                  `json:"total_s,omitempty"`
 	Timing    *timing.Report            `json:"timing,omitempty"`
 	Operation map[string]float64        `json:"operation_s,omitempty"`
+	// Banded is the per-feature report of a banded plan.
+	Banded []pathplan.BandedFeatureReport `json:"banded,omitempty"`
 }
 
 func planReport(p *pathplan.Plan, rep *timing.Report) planReportJSON {
