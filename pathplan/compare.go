@@ -197,7 +197,8 @@ type FeatureResult struct {
 	InBand        float64 `json:"in_band_fraction"`
 	// FluteUsage is the share of the flute length that does work: the
 	// height bands of engage.FluteWear (1/40 of the flute length each)
-	// that remove at least half the busiest band's volume.
+	// that are in the cut for at least half the path length of the band
+	// in the cut the longest.
 	FluteUsage float64 `json:"flute_usage"`
 	// PeakPowerKW is the largest cutting power of a sample (Kienzle), kW.
 	PeakPowerKW float64 `json:"peak_power_kw"`
@@ -727,19 +728,21 @@ func (fr *FeatureResult) fromSimulation(res *engage.Result, tool engage.Tool, jo
 	return wear, nil
 }
 
-// fluteUsage returns the share of the flute length whose bands remove at
-// least half the busiest band's volume.
+// fluteUsage returns the share of the flute length whose bands are in the
+// cut for at least half the path length of the band in the cut the
+// longest. Contact rather than volume decides, so that what the end teeth
+// cut in entries (counted in the tip band) does not hide the side work.
 func fluteUsage(wear []engage.WearBand, flute float64) float64 {
 	peak := 0.0
 	for _, w := range wear {
-		peak = math.Max(peak, w.Volume)
+		peak = math.Max(peak, w.Contact)
 	}
 	if peak <= 0 || flute <= 0 {
 		return 0
 	}
 	used := 0.0
 	for _, w := range wear {
-		if w.Volume >= 0.5*peak {
+		if w.Contact >= 0.5*peak {
 			used += w.To - w.From
 		}
 	}
