@@ -91,6 +91,8 @@ func (g *grid) cells(a, b ipt, buf []int32) []int32 {
 type arrangement struct {
 	budget int
 
+	pa, pb []ipt // pruned raw segments pa[i] → pb[i]
+
 	pts        []ipt   // raw vertices
 	sa, sb     []int32 // raw segments sa[i] → sb[i]
 	g          grid
@@ -125,9 +127,13 @@ func (a *arrangement) dst(h int32) int32 { return a.org(h ^ 1) }
 // windingBoundary returns the boundary of {winding ≥ 1} of the closed chains
 // as simple rings, each with the set on its left (outer rings
 // counter-clockwise, holes clockwise).
-func windingBoundary(chains [][]ipt, budget int) ([][]ipt, error) {
+//
+// pruned, when not nil, marks segments (pruned[c][i] for c[i]→c[i+1]) that
+// provably lie inside {winding ≥ 1} or inside {winding ≤ 0} with a margin
+// (see prune.go): they are not noded and only count in winding numbers.
+func windingBoundary(chains [][]ipt, pruned [][]bool, budget int) ([][]ipt, error) {
 	a := &arrangement{budget: budget}
-	for _, c := range chains {
+	for k, c := range chains {
 		if len(c) < 2 {
 			continue
 		}
@@ -136,6 +142,11 @@ func windingBoundary(chains [][]ipt, budget int) ([][]ipt, error) {
 		for i := range c {
 			j := (i + 1) % len(c)
 			if c[i] == c[j] {
+				continue
+			}
+			if pruned != nil && pruned[k][i] {
+				a.pa = append(a.pa, c[i])
+				a.pb = append(a.pb, c[j])
 				continue
 			}
 			a.sa = append(a.sa, base+int32(i))
@@ -154,7 +165,15 @@ func windingBoundary(chains [][]ipt, budget int) ([][]ipt, error) {
 		return nil, nil
 	}
 	a.traceFaces()
-	keep := a.windings()
+	var keep []bool
+	if len(a.pa) == 0 {
+		keep = a.windings()
+	} else {
+		var err error
+		if keep, err = a.faceWindings(); err != nil {
+			return nil, err
+		}
+	}
 	return a.link(keep), nil
 }
 
@@ -657,4 +676,74 @@ func (a *arrangement) link(keep []bool) [][]ipt {
 		emit(stack)
 	}
 	return out
+}
+
+// faceWindings is windings for an arrangement with pruned segments: the
+// winding number is no longer constant on a face of the noded graph (pruned
+// segments cross faces without being noded), but which side of 1 it is on
+// is (prune.go), so every face gets its own exact ray count against the
+// graph edges and the pruned segments together. The count is taken at the
+// midpoint of one of the face's half-edges, moved infinitesimally into the
+// face.
+func (a *arrangement) faceWindings() ([]bool, error) {
+	nh := len(a.adj)
+	ne := len(a.eu)
+	sa := make([]ipt, 0, ne+len(a.pa))
+	sb := make([]ipt, 0, ne+len(a.pa))
+	m := make([]int32, 0, ne+len(a.pa))
+	for e := 0; e < ne; e++ {
+		sa = append(sa, a.hot[a.eu[e]])
+		sb = append(sb, a.hot[a.ev[e]])
+		m = append(m, a.ec[e])
+	}
+	sa = append(sa, a.pa...)
+	sb = append(sb, a.pb...)
+	for range a.pa {
+		m = append(m, 1)
+	}
+	ix := newRayIndex(sa, sb, m)
+	var in []bool
+	for h0 := 0; h0 < nh; h0++ {
+		if a.face[h0] >= 0 {
+			continue
+		}
+		f := int32(len(in))
+		h := int32(h0)
+		var w int32
+		found := false
+		for a.face[h] < 0 {
+			a.face[h] = f
+			if !found {
+				p, q := a.hot[a.org(h)], a.hot[a.dst(h)]
+				w, found = ix.winding(ipt{p.x + q.x, p.y + q.y}, 2, ipt{p.y - q.y, q.x - p.x})
+			}
+			h = a.nxt[h]
+		}
+		if !found {
+			// Every half-edge midpoint of the face lies on a pruned
+			// segment: try the quarter points.
+			h = int32(h0)
+			for {
+				p, q := a.hot[a.org(h)], a.hot[a.dst(h)]
+				for _, t := range [2][2]int64{{3, 1}, {1, 3}} {
+					if !found {
+						w, found = ix.winding(ipt{t[0]*p.x + t[1]*q.x, t[0]*p.y + t[1]*q.y}, 4, ipt{p.y - q.y, q.x - p.x})
+					}
+				}
+				h = a.nxt[h]
+				if found || h == int32(h0) {
+					break
+				}
+			}
+		}
+		if !found {
+			return nil, fmt.Errorf("%w: no regular point found on a face of the arrangement", ErrTooComplex)
+		}
+		in = append(in, w >= 1)
+	}
+	keep := make([]bool, nh)
+	for h := 0; h < nh; h++ {
+		keep[h] = in[a.face[h]] && !in[a.face[h^1]]
+	}
+	return keep, nil
 }

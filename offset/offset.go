@@ -235,11 +235,25 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 			}
 		}
 	}
-	chains := make([][]ipt, 0, len(rings))
-	for _, q := range rings {
-		chains = append(chains, rawCurve(q, d, step))
+	var pr *pruner
+	if simpleRings(rings) {
+		pr = newPruner(rings, d, tol)
 	}
-	bnd, err := windingBoundary(chains, MaxVertices)
+	chains := make([][]ipt, 0, len(rings))
+	var pruned [][]bool
+	if pr != nil {
+		pruned = make([][]bool, 0, len(rings))
+	}
+	base := int32(0)
+	for _, q := range rings {
+		c, p := rawCurve(q, d, step, base, pr)
+		chains = append(chains, c)
+		if pr != nil {
+			pruned = append(pruned, p)
+		}
+		base += int32(len(q))
+	}
+	bnd, err := windingBoundary(chains, pruned, MaxVertices)
 	if err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
 	}
@@ -299,8 +313,12 @@ func arcBudget(q []ipt, right bool, step float64) int {
 // rawCurve returns the raw offset curve of ring q (interior on its left) at
 // signed distance d: offset edges, arcs at vertices convex for the offset
 // direction, joins through the vertex elsewhere (none where the ring runs
-// straight on).
-func rawCurve(q []ipt, d, step float64) []ipt {
+// straight on). base is the index of q's first edge among all input edges
+// (for pr). When pr is not nil, the joins through the vertex get an extra
+// vertex where they come within pr's threshold of the vertex, and the
+// second result marks the segments (out[i]→out[i+1]) that pr certifies as
+// prunable.
+func rawCurve(q []ipt, d, step float64, base int32, pr *pruner) ([]ipt, []bool) {
 	n := len(q)
 	right := d > 0
 	r := math.Abs(d)
@@ -354,45 +372,88 @@ func rawCurve(q []ipt, d, step float64) []ipt {
 	if all {
 		short[0] = false
 	}
+	// The chain starts at the end of the last offset edge and then runs,
+	// for every vertex q[i], through the join at q[i] and the offset edge
+	// i. src[k] is the input edge the segment ending at out[k] comes from
+	// (for a join: the edge before its vertex); src[0] is for the closing
+	// segment.
 	out := make([]ipt, 0, 2*n+8)
-	add := func(p geom.Point) {
-		g := snap(p)
+	src := make([]int32, 0, 2*n+8)
+	add := func(g ipt, e int) {
 		if len(out) == 0 || out[len(out)-1] != g {
 			out = append(out, g)
+			src = append(src, base+int32(e))
 		}
 	}
-	for i := 0; i < n; i++ {
-		a, b := q[i], q[(i+1)%n]
-		pa, pb := a.point(), b.point()
-		if prev := (i + n - 1) % n; short[prev] {
-			add(xs[prev])
-		} else {
-			add(geom.Point{X: pa.X + r*nx[i], Y: pa.Y + r*ny[i]})
-		}
+	end := func(i int) geom.Point { // end of offset edge i
 		if short[i] {
-			continue // the next edge starts at the crossing
+			return xs[i]
 		}
-		add(geom.Point{X: pb.X + r*nx[i], Y: pb.Y + r*ny[i]})
-		// Join at b towards edge i+1.
-		c := q[(i+2)%n]
-		ok, sw := convexFor(b.x-a.x, b.y-a.y, c.x-b.x, c.y-b.y, right)
-		if !ok {
-			if crossSign(b.x-a.x, b.y-a.y, c.x-b.x, c.y-b.y) != 0 && out[len(out)-1] != b {
-				out = append(out, b) // join through the vertex itself
+		pb := q[(i+1)%n].point()
+		return geom.Point{X: pb.X + r*nx[i], Y: pb.Y + r*ny[i]}
+	}
+	add(snap(end(n-1)), n-1)
+	for i := 0; i < n; i++ {
+		h := (i + n - 1) % n // edge before q[i]
+		if !short[h] {
+			b, a, c := q[i], q[h], q[(i+1)%n]
+			ok, sw := convexFor(b.x-a.x, b.y-a.y, c.x-b.x, c.y-b.y, right)
+			pb := b.point()
+			switch {
+			case ok:
+				k := int(math.Ceil(math.Abs(sw) / step))
+				a0 := math.Atan2(ny[h], nx[h])
+				for m := 1; m < k; m++ {
+					t := a0 + sw*float64(m)/float64(k)
+					add(snap(geom.Point{X: pb.X + r*math.Cos(t), Y: pb.Y + r*math.Sin(t)}), h)
+				}
+			case crossSign(b.x-a.x, b.y-a.y, c.x-b.x, c.y-b.y) != 0:
+				// Join through the vertex itself, split where it comes
+				// within the pruning threshold of the vertex unless the
+				// neighbour edge already certifies all of it.
+				e := out[len(out)-1]
+				if pr != nil && pr.d2(float64(e.x), float64(e.y), base+int32(i)) >= pr.thr2 {
+					add(splitSpoke(b, e, pr.thr), h)
+				}
+				add(b, h)
+				if pr != nil {
+					s := snap(geom.Point{X: pb.X + r*nx[i], Y: pb.Y + r*ny[i]})
+					if pr.d2(float64(s.x), float64(s.y), base+int32(h)) >= pr.thr2 {
+						add(splitSpoke(b, s, pr.thr), h)
+					}
+				}
 			}
-			continue
+			add(snap(geom.Point{X: pb.X + r*nx[i], Y: pb.Y + r*ny[i]}), h)
 		}
-		k := int(math.Ceil(math.Abs(sw) / step))
-		a0 := math.Atan2(ny[i], nx[i])
-		for m := 1; m < k; m++ {
-			t := a0 + sw*float64(m)/float64(k)
-			add(geom.Point{X: pb.X + r*math.Cos(t), Y: pb.Y + r*math.Sin(t)})
+		if i < n-1 {
+			add(snap(end(i)), i)
 		}
+	}
+	if len(out) > 1 {
+		src[0] = base + int32(n-1)
 	}
 	for len(out) > 1 && out[len(out)-1] == out[0] {
+		src[0] = src[len(src)-1]
 		out = out[:len(out)-1]
+		src = src[:len(src)-1]
 	}
-	return out
+	if pr == nil {
+		return out, nil
+	}
+	pruned := make([]bool, len(out))
+	m := len(out)
+	for k := 0; k < m; k++ {
+		pruned[k] = pr.covered(out[k], out[(k+1)%m], src[(k+1)%m])
+	}
+	return out, pruned
+}
+
+// splitSpoke returns the grid point on segment be at distance about thr
+// (grid units) from b, rounded so that it stays within thr of b.
+func splitSpoke(b, e ipt, thr float64) ipt {
+	dx, dy := float64(e.x-b.x), float64(e.y-b.y)
+	t := (thr - 2) / math.Hypot(dx, dy)
+	return ipt{b.x + int64(math.Round(t*dx)), b.y + int64(math.Round(t*dy))}
 }
 
 // assemble turns the simple boundary rings into a normalised, sorted shape.

@@ -94,7 +94,15 @@ func (x i128) sign() int {
 
 func (x i128) cmp(y i128) int { return x.sub(y).sign() }
 
-func (x i128) float() float64 { return float64(x.hi)*0x1p64 + float64(x.lo) }
+// float returns x rounded to a float64. A negative x is converted through
+// its magnitude: hi·2⁶⁴ + lo with hi = −1 would cancel catastrophically.
+func (x i128) float() float64 {
+	if x.hi < 0 {
+		n := x.neg()
+		return -(float64(uint64(n.hi))*0x1p64 + float64(n.lo))
+	}
+	return float64(x.hi)*0x1p64 + float64(x.lo)
+}
 
 const small = 1 << 31
 
