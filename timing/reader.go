@@ -440,6 +440,40 @@ func (r *Reader) execute() error {
 			return r.errf("G%s not supported", gName(g))
 		}
 	}
+	// NIST RS274NGC v3 §3.4: two G codes of one modal group on a line are
+	// an error (which one wins would be a guess).
+	var gGroups [10]bool
+	for _, g := range r.gs[:r.ng] {
+		grp := -1
+		switch g {
+		case 170, 180, 190: // plane
+			grp = 0
+		case 200, 210: // units
+			grp = 1
+		case 900, 910: // distance mode
+			grp = 2
+		case 901, 911: // arc distance mode
+			grp = 3
+		case 930, 940, 950: // feed rate mode
+			grp = 4
+		case 400, 410, 420: // cutter radius compensation
+			grp = 5
+		case 430, 490: // tool length offset
+			grp = 6
+		case 540, 550, 560, 570, 580, 590, 591, 592, 593: // coordinate system
+			grp = 7
+		case 980, 990: // canned cycle return mode
+			grp = 8
+		case 610, 611, 640: // path control
+			grp = 9
+		}
+		if grp >= 0 {
+			if gGroups[grp] {
+				return r.errf("two G codes of one modal group on a line (G%s)", gName(g))
+			}
+			gGroups[grp] = true
+		}
+	}
 	// NIST RS274NGC v3: at most one M code of each modal group per line
 	var groups [5]bool
 	for _, m := range r.ms[:r.nm] {
