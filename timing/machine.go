@@ -1,6 +1,7 @@
 package timing
 
 import (
+	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -138,20 +139,23 @@ func (j *jsonAxes) axes(key string) (Axes, error) {
 // "tool_change_s" and "spindle_start_s" in seconds. Unknown keys, missing
 // keys and non-positive limits are errors that name the key.
 func ReadMachine(r io.Reader) (Machine, error) {
-	dec := json.NewDecoder(r)
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return Machine{}, fmt.Errorf("machine: %w", err)
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	var j jsonMachine
 	if err := dec.Decode(&j); err != nil {
 		if errors.Is(err, io.EOF) {
 			return Machine{}, errors.New("machine: empty file")
 		}
-		return Machine{}, fmt.Errorf("machine: %w", err)
+		return Machine{}, machineJSONError(data, err)
 	}
 	if _, err := dec.Token(); !errors.Is(err, io.EOF) {
 		return Machine{}, errors.New("machine: unexpected data after the JSON object")
 	}
 	m := Machine{Name: j.Name, ToolChangeS: j.ToolChangeS, SpindleStartS: j.SpindleStartS}
-	var err error
 	if m.MaxFeed, err = j.MaxFeed.axes("max_feed"); err != nil {
 		return Machine{}, err
 	}
@@ -177,4 +181,24 @@ func ReadMachine(r io.Reader) (Machine, error) {
 		return Machine{}, err
 	}
 	return m, nil
+}
+
+// machineJSONError names the line of a JSON syntax or type error and the
+// key of a type error or unknown key.
+func machineJSONError(data []byte, err error) error {
+	line := func(off int64) int {
+		off = min(max(off, 0), int64(len(data)))
+		return 1 + bytes.Count(data[:off], []byte("\n"))
+	}
+	var se *json.SyntaxError
+	var te *json.UnmarshalTypeError
+	switch {
+	case errors.As(err, &se):
+		return fmt.Errorf("machine: line %d: JSON syntax: %w", line(se.Offset), err)
+	case errors.As(err, &te):
+		return fmt.Errorf("machine: line %d: key %q: expected %v, got JSON %s", line(te.Offset), te.Field, te.Type, te.Value)
+	case errors.Is(err, io.ErrUnexpectedEOF):
+		return fmt.Errorf("machine: line %d: JSON ends early: %w", line(int64(len(data))), err)
+	}
+	return fmt.Errorf("machine: %w", err)
 }
