@@ -22,6 +22,23 @@
 // from 0.1–0.2 mm cells. Stock outlines and already removed regions start the
 // field with their exact signed distance.
 //
+// Known limits of the field (each cell keeps one record per kind):
+//   - Several levels: when a cut lowers a cell, its "passed by" value is
+//     reset to the stock distance, so a wall of a deeper region next to it
+//     (a Remove or an earlier deeper cut) is then known only to the cell at
+//     heights between that deeper floor and the new top: a later shallower
+//     cut that lowers cells beside the wall of a deeper pre-removed region
+//     leaves that wall, below the shallower cut, at cell-size accuracy
+//     (up to one cell of error in ae for a tool working along it there).
+//     Keeping it exact needs the height of the passed-by record per cell
+//     (4 more bytes a cell), not done.
+//   - Ramps and helices: the cut distance of a cell is the one of the last
+//     stretch that lowered it, which may be shorter than the distance to
+//     the whole path; a wall the tool only touches (the outer wall or core
+//     of a helix bore) can then read as material, and ap of such samples
+//     as the depth below the top rather than the step down (about one
+//     steady helix sample in eight; TestHelixSteadyAP, skipped).
+//
 // # Simulation
 //
 // [Simulate] walks a [geom.Toolpath] in small steps. At each sample it

@@ -119,6 +119,12 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	if full {
 		tol = float32(m.cell * m.cell / (2 * r))
 	}
+	// hTol is the margin by which a point must be inside material for its
+	// height to count in ap, and inside a higher level for topAt to take
+	// that level: the bilinear error of a curved field, about
+	// cell²/(8·radius), must not turn a wall the circle only touches into
+	// contact over the wall's whole height.
+	hTol := -float32(m.cell * m.cell / (2 * r))
 
 	// Circle points on the fixed grid come from the table of the material;
 	// points between grid angles by angle addition from the nearest entry.
@@ -138,7 +144,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 		v, h, lo := m.field(px, py, zt)
 		v += tol
 		if v < 0 && lo < h-epsZ {
-			h = m.topAt(px, py, zt, lo, h, tol)
+			h = m.topAt(px, py, zt, lo, h, tol-hTol)
 		}
 		return v, h
 	}
@@ -148,7 +154,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 		v, h, lo := m.field(px, py, zt)
 		v += tol
 		if v < 0 && lo < h-epsZ {
-			h = m.topAt(px, py, zt, lo, h, tol)
+			h = m.topAt(px, py, zt, lo, h, tol-hTol)
 		}
 		return v, h
 	}
@@ -260,7 +266,20 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 		first               = -1.0
 		last                float64
 		hmax                = float32(math.Inf(-1))
+		// hsure is hmax over the points clearly in material, by more than
+		// the bilinear error of a curved field (about cell²/(8·radius)):
+		// a circle tangent to a wall or core of the tool's own making
+		// (the inside of a helix bore) must not read that wall's full
+		// height as ap. It falls back to hmax for arcs too thin to hold
+		// such a point.
+		hsure = float32(math.Inf(-1))
 	)
+	seen := func(v, h float32) {
+		hmax = max(hmax, h)
+		if v < hTol {
+			hsure = max(hsure, h)
+		}
+	}
 	addArc := func(a, b float64) {
 		if b <= a {
 			return
@@ -282,7 +301,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	}
 	pv, ph := evalK(0)
 	if pv < 0 {
-		hmax = max(hmax, ph)
+		seen(pv, ph)
 	}
 	v0 := pv
 	start := 0.0 // start of the current material arc, when the field is negative
@@ -303,7 +322,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 			mid := (a + b) / 2
 			vm, hm := eval(mid)
 			if vm < 0 {
-				hmax = max(hmax, hm)
+				seen(vm, hm)
 			}
 			scan(a, mid, va, vm, depth-1)
 			scan(mid, b, vm, vb, depth-1)
@@ -323,7 +342,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 			v, hv = evalK(k1)
 		}
 		if v < 0 {
-			hmax = max(hmax, hv)
+			seen(v, hv)
 		}
 		scan(float64(k)*d, float64(k1)*d, pv, v, 4)
 		pv = v
@@ -345,6 +364,9 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 		e.AE = t.Diameter
 	} else {
 		e.AE = r * (1 - math.Cos(phi))
+	}
+	if !math.IsInf(float64(hsure), -1) {
+		hmax = hsure
 	}
 	if !math.IsInf(float64(hmax), -1) {
 		e.AP = math.Max(float64(hmax)-at.Z, 0)
