@@ -32,6 +32,10 @@ const (
 // would exceed the cell budget.
 var ErrCellBudget = errors.New("material grid exceeds the cell budget")
 
+// ErrSampleBudget is wrapped by the error Simulate returns when the path
+// would need more samples than SimOptions.MaxSamples allows.
+var ErrSampleBudget = errors.New("sample budget exceeded")
+
 // MaterialOptions sets the resolution and memory bound of a Material. The
 // zero value selects the defaults.
 type MaterialOptions struct {

@@ -318,8 +318,8 @@ func Simulate(ctx context.Context, m *Material, t Tool, tp *geom.Toolpath, opt S
 		from = mv.To
 	}
 	if est := total/opt.Step + float64(len(tp.Moves)); est > float64(opt.MaxSamples) {
-		return nil, fmt.Errorf("simulate: a sampling step of %g mm gives about %.3g samples for %.1f mm of path, more than the budget of %d; use a larger step (≥ %.3g mm)",
-			opt.Step, est, total, opt.MaxSamples, total/float64(opt.MaxSamples)*1.01)
+		return nil, fmt.Errorf("simulate: %w: a sampling step of %g mm gives about %.3g samples for %.1f mm of path, more than the budget of %d; use a larger step (≥ %.3g mm)",
+			ErrSampleBudget, opt.Step, est, total, opt.MaxSamples, total/float64(opt.MaxSamples)*1.01)
 	}
 	r := t.Radius()
 	sim := simulator{m: m, t: t, r: r, opt: opt, total: total}
