@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 
 	"github.com/chipband/chipband/engage"
@@ -28,8 +29,11 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 		fs.Usage()
 		return badInputf("want a job file and a program file, got %d arguments", len(pos))
 	}
-	if !(*cell > 0) || !(*step > 0) {
-		return badInputf("--cell and --step must be positive")
+	if !(*cell > 0) || math.IsInf(*cell, 0) {
+		return badInputf("--cell must be a positive number of mm, got %v", *cell)
+	}
+	if !(*step > 0) || math.IsInf(*step, 0) {
+		return badInputf("--step must be a positive number of mm, got %v", *step)
 	}
 	job, err := pathplan.LoadJob(pos[0])
 	if err != nil {
@@ -55,6 +59,9 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) erro
 	if err != nil {
 		if errors.Is(err, engage.ErrCellBudget) {
 			return badInputf("%s: %w (try a larger --cell)", pos[1], err)
+		}
+		if errors.Is(err, engage.ErrSampleBudget) {
+			return badInputf("%s: %w (try a larger --step)", pos[1], err)
 		}
 		return fmt.Errorf("%s: %w", pos[1], err)
 	}
