@@ -36,6 +36,16 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if *out == "" {
 		return badInputf("-o OUT.nc is required")
 	}
+	// Refuse an output that cannot be written before anything is written,
+	// so a failed run leaves no output behind.
+	for _, o := range []struct{ flag, path string }{{"-o", *out}, {"--report", *reportPath}, {"--svg", *svgPath}} {
+		if o.path == "" {
+			continue
+		}
+		if fi, err := os.Stat(filepath.Dir(o.path)); err != nil || !fi.IsDir() {
+			return badInputf("%s %s: directory %s does not exist", o.flag, o.path, filepath.Dir(o.path))
+		}
+	}
 	job, err := pathplan.LoadJob(pos[0])
 	if err != nil {
 		return badInput(err)
