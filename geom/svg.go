@@ -28,6 +28,10 @@ type SVGOptions struct {
 	// SkipOpen drops open subpaths, lines and polylines instead of
 	// refusing the file.
 	SkipOpen bool
+	// ID, when set, reads only the element with this id attribute and,
+	// when it is a group, everything inside it. A file without such an
+	// element is an error.
+	ID string
 }
 
 const svgNS = "http://www.w3.org/2000/svg"
@@ -142,8 +146,10 @@ func ignoredContainer(name string) bool {
 func (rd *svgReader) read(r io.Reader) error {
 	dec := xml.NewDecoder(r)
 	var stack []affine // transform of each open element
+	var chosen []bool  // whether each open element is inside the element named by opt.ID
 	skip := 0          // depth inside an ignored element
 	root := false
+	found := false
 	for {
 		tok, err := dec.Token()
 		if err == io.EOF {
@@ -177,6 +183,7 @@ func (rd *svgReader) read(r io.Reader) error {
 					return fmt.Errorf("svg element: %w", err)
 				}
 				stack = append(stack, m)
+				chosen = append(chosen, rd.opt.ID == "")
 				continue
 			}
 			if v, _ := attr(t, "display"); strings.TrimSpace(v) == "none" || ignoredContainer(name) {
@@ -199,6 +206,14 @@ func (rd *svgReader) read(r io.Reader) error {
 				m = m.then(local)
 			}
 			stack = append(stack, m)
+			sel := chosen[len(chosen)-1]
+			if id, ok := attr(t, "id"); ok && rd.opt.ID != "" && id == rd.opt.ID {
+				sel, found = true, true
+			}
+			chosen = append(chosen, sel)
+			if !sel {
+				continue
+			}
 			if err := rd.element(t, src, m); err != nil {
 				return err
 			}
@@ -209,11 +224,15 @@ func (rd *svgReader) read(r io.Reader) error {
 			}
 			if len(stack) > 0 {
 				stack = stack[:len(stack)-1]
+				chosen = chosen[:len(chosen)-1]
 			}
 		}
 	}
 	if !root {
 		return errors.New("no svg element")
+	}
+	if rd.opt.ID != "" && !found {
+		return fmt.Errorf("no element with id %q", rd.opt.ID)
 	}
 	return nil
 }

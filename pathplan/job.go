@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"github.com/chipband/chipband/geom"
@@ -188,13 +189,20 @@ type cutJSON struct {
 //	 "clearance": 5,
 //	 "machine": {...}}
 //
+// The stock outline and feature regions are WKT, or references to an SVG
+// drawing such as "svg:plate.svg#pocket" (see SVGPrefix).
+//
 // name, description, cut.band, cut.allowance (0), cut.layered, ramp_angle
 // (DefaultRampAngle), helix_diameter (half the tool diameter),
 // min_path_radius (0), finish (false) and machine (the machine file of the
 // timing package) are optional; every other key is required. Unknown keys
 // are errors. The job is validated with Job.Validate. Errors name the key or
 // feature; the caller adds the file name.
-func ReadJob(r io.Reader) (*Job, error) {
+func ReadJob(r io.Reader) (*Job, error) { return readJob(r, "") }
+
+// readJob is ReadJob with the directory that "svg:" references are
+// relative to ("" for the working directory).
+func readJob(r io.Reader, dir string) (*Job, error) {
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, fmt.Errorf("reading job: %w", err)
@@ -208,7 +216,7 @@ func ReadJob(r io.Reader) (*Job, error) {
 	if _, err := dec.Token(); !errors.Is(err, io.EOF) {
 		return nil, jobErrorf("", "unexpected data after the JSON object")
 	}
-	j, err := w.job()
+	j, err := w.job(dir)
 	if err != nil {
 		return nil, err
 	}
@@ -226,7 +234,7 @@ func LoadJob(path string) (*Job, error) {
 		return nil, err
 	}
 	defer f.Close()
-	j, err := ReadJob(f)
+	j, err := readJob(f, filepath.Dir(path))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
@@ -258,7 +266,39 @@ func jsonError(data []byte, err error) error {
 
 func missing(key string) error { return jobErrorf("", "missing key %q", key) }
 
-func (w *jobJSON) job() (*Job, error) {
+// SVGPrefix starts a shape reference to an SVG drawing in a job file:
+// "svg:FILE" reads every closed outline of FILE and "svg:FILE#ID" only the
+// element with that id (with its children, for a group), through
+// geom.ParseSVGWith. FILE is relative to the job file's directory.
+const SVGPrefix = "svg:"
+
+// parseShape reads a stock outline or feature region: WKT text or an SVG
+// reference (see SVGPrefix).
+func parseShape(s, dir string) (geom.Shape, error) {
+	ref, ok := strings.CutPrefix(strings.TrimSpace(s), SVGPrefix)
+	if !ok {
+		return geom.ParseWKT(s)
+	}
+	file, id, _ := strings.Cut(ref, "#")
+	if file == "" {
+		return nil, fmt.Errorf("%q names no SVG file", s)
+	}
+	if !filepath.IsAbs(file) && dir != "" {
+		file = filepath.Join(dir, file)
+	}
+	f, err := os.Open(file)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	shape, err := geom.ParseSVGWith(f, geom.SVGOptions{ID: id})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", file, err)
+	}
+	return shape, nil
+}
+
+func (w *jobJSON) job(dir string) (*Job, error) {
 	j := &Job{Name: w.Name, Description: w.Description}
 	if w.Stock == nil {
 		return nil, missing("stock")
@@ -269,7 +309,7 @@ func (w *jobJSON) job() (*Job, error) {
 	if w.Stock.Top == nil {
 		return nil, missing("stock.top")
 	}
-	outline, err := geom.ParseWKT(*w.Stock.Outline)
+	outline, err := parseShape(*w.Stock.Outline, dir)
 	if err != nil {
 		return nil, jobErrorf("", "stock.outline: %v", err)
 	}
@@ -288,7 +328,7 @@ func (w *jobJSON) job() (*Job, error) {
 		if f.Depth == nil {
 			return nil, jobErrorf(name, "missing key %q", "depth")
 		}
-		region, err := geom.ParseWKT(*f.Region)
+		region, err := parseShape(*f.Region, dir)
 		if err != nil {
 			return nil, jobErrorf(name, "region: %v", err)
 		}
