@@ -310,7 +310,7 @@ func simpleRings(rings [][]ipt) bool {
 		}
 	}
 	_ = g
-	ix := newRayIndex(a, b, nil)
+	ix := newRayIndex(a, b, nil, 2*len(rings))
 	for _, q := range rings {
 		u, v := q[0], q[1]
 		m := ipt{u.x + v.x, u.y + v.y}

@@ -64,7 +64,8 @@ type rayIndex struct {
 	ids   []int32
 }
 
-func newRayIndex(a, b []ipt, m []int32) *rayIndex {
+// queries is the expected number of queries; the strips are sized to it.
+func newRayIndex(a, b []ipt, m []int32, queries int) *rayIndex {
 	ix := &rayIndex{a: a, b: b, m: m}
 	if len(a) == 0 {
 		return ix
@@ -73,7 +74,7 @@ func newRayIndex(a, b []ipt, m []int32) *rayIndex {
 	for i := range a {
 		minX, maxX = min(minX, a[i].x, b[i].x), max(maxX, a[i].x, b[i].x)
 	}
-	ns := int64(min(max(len(a)/4, 1), 1<<14))
+	ns := int64(min(max(len(a)/4, 1), 1<<14, 4*queries+1))
 	ix.x0 = minX
 	ix.w = max((maxX-minX)/ns+1, 1)
 	ns = (maxX-minX)/ix.w + 1
