@@ -93,17 +93,19 @@ type arrangement struct {
 
 	pa, pb []ipt // pruned raw segments pa[i] → pb[i]
 
-	pts        []ipt   // raw vertices
-	sa, sb     []int32 // raw segments sa[i] → sb[i]
-	g          grid
-	cellStart  []int32 // CSR: raw segments per cell
-	cellSegs   []int32
-	hot        []ipt   // hot pixel centres, sorted, unique
-	rawHot     []int32 // hot pixel of each raw vertex
-	hotStart   []int32 // CSR: hot pixels per cell
-	hotIDs     []int32
-	routeStart []int32 // per raw segment, its route through hot pixels
-	route      []int32
+	pts          []ipt   // raw vertices
+	sa, sb       []int32 // raw segments sa[i] → sb[i]
+	g            grid
+	cellStart    []int32 // CSR: raw segments per cell
+	cellSegs     []int32
+	segCells     []int32 // CSR: cells per raw segment
+	segCellStart []int32
+	hot          []ipt   // hot pixel centres, sorted, unique
+	rawHot       []int32 // hot pixel of each raw vertex
+	hotStart     []int32 // CSR: hot pixels per cell
+	hotIDs       []int32
+	routeStart   []int32 // per raw segment, its route through hot pixels
+	route        []int32
 
 	// planar graph
 	eu, ev   []int32 // edge endpoints (hot pixel ids), eu < ev
@@ -133,6 +135,13 @@ func (a *arrangement) dst(h int32) int32 { return a.org(h ^ 1) }
 // (see prune.go): they are not noded and only count in winding numbers.
 func windingBoundary(chains [][]ipt, pruned [][]bool, budget int) ([][]ipt, error) {
 	a := &arrangement{budget: budget}
+	total := 0
+	for _, c := range chains {
+		total += len(c)
+	}
+	a.pts = make([]ipt, 0, total)
+	a.sa = make([]int32, 0, total)
+	a.sb = make([]int32, 0, total)
 	for k, c := range chains {
 		if len(c) < 2 {
 			continue
@@ -215,6 +224,7 @@ func (a *arrangement) buildGrid() {
 		count[c+1] += count[c]
 	}
 	a.cellStart = slices.Clone(count)
+	a.segCells, a.segCellStart = flat, fstart
 	a.cellSegs = make([]int32, len(flat))
 	for i := range a.sa {
 		for _, c := range flat[fstart[i]:fstart[i+1]] {
@@ -364,7 +374,6 @@ func (a *arrangement) snapRound() error {
 		id int32
 	}
 	var cands []cand
-	var buf []int32
 	a.routeStart = make([]int32, ns+1)
 	a.route = make([]int32, 0, 2*ns+ns/2)
 	for s := 0; s < ns; s++ {
@@ -375,8 +384,7 @@ func (a *arrangement) snapRound() error {
 		x0, y0 := min(p.x, q.x)-1, min(p.y, q.y)-1
 		x1, y1 := max(p.x, q.x)+1, max(p.y, q.y)+1
 		cands = cands[:0]
-		buf = a.g.cells(p, q, buf[:0])
-		for _, c := range buf {
+		for _, c := range a.segCells[a.segCellStart[s]:a.segCellStart[s+1]] {
 			for _, id := range a.hotIDs[a.hotStart[c]:a.hotStart[c+1]] {
 				h := a.hot[id]
 				if h.x < x0 || h.x > x1 || h.y < y0 || h.y > y1 || id == ip || id == iq {

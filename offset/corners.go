@@ -23,9 +23,22 @@ import (
 // (an index into centres) of the arc that segment c[i]→c[i+1] is a chord
 // of, or −1; r is the arc radius in mm.
 func exactCorners(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt, r float64) ([][]ipt, [][]bool) {
-	var sa, sb []ipt
-	var sc, si, sarc []int32
+	total := 0
 	anyArc := false
+	for c := range chains {
+		total += len(chains[c])
+		for _, v := range arcs[c] {
+			anyArc = anyArc || v >= 0
+		}
+	}
+	if !anyArc {
+		return chains, pruned
+	}
+	sa := make([]ipt, 0, total)
+	sb := make([]ipt, 0, total)
+	sc := make([]int32, 0, total)
+	si := make([]int32, 0, total)
+	sarc := make([]int32, 0, total)
 	for c, ch := range chains {
 		n := len(ch)
 		for i := range ch {
@@ -38,19 +51,16 @@ func exactCorners(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt
 			sc = append(sc, int32(c))
 			si = append(si, int32(i))
 			sarc = append(sarc, arcs[c][i])
-			anyArc = anyArc || arcs[c][i] >= 0
 		}
-	}
-	if !anyArc {
-		return chains, pruned
 	}
 	// Kept segment ids by chain and index, for the neighbours of a chord.
 	idOf := make([][]int32, len(chains))
+	flat := make([]int32, total)
+	for i := range flat {
+		flat[i] = -1
+	}
 	for c, ch := range chains {
-		idOf[c] = make([]int32, len(ch))
-		for i := range idOf[c] {
-			idOf[c][i] = -1
-		}
+		idOf[c], flat = flat[:len(ch):len(ch)], flat[len(ch):]
 	}
 	for e := range sa {
 		idOf[sc[e]][si[e]] = int32(e)

@@ -128,7 +128,7 @@ func (p *pruner) cell(x, y float64) int {
 func (p *pruner) buildField(minX, minY, maxX, maxY float64) {
 	n := len(p.ax)
 	w, h := maxX-minX+1, maxY-minY+1
-	target := float64(min(max(2*n, 256), 1<<16))
+	target := float64(min(max(n/2, 64), 1<<15))
 	p.h = max(math.Sqrt(w*h/target), 1)
 	p.ox, p.oy = minX, minY
 	p.nx = min(int(w/p.h)+1, 1<<12)
