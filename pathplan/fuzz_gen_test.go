@@ -132,7 +132,8 @@ func genKeep(t testing.TB, j *Job) geom.Shape {
 // while its centre stays in the free space at that floor eroded by r + a —
 // the erosion by r + a dilated by r, a morphological opening when a = 0
 // (Serra, Image Analysis and Mathematical Morphology, 1982, from memory).
-// It does not depend on how a path is built.
+// It does not depend on how a path is built. Features with nothing
+// reachable are left out.
 func genReach(t testing.TB, j *Job) []engage.Target {
 	t.Helper()
 	bb := j.Stock.Outline.Bounds()
@@ -181,6 +182,16 @@ func genReach(t testing.TB, j *Job) []engage.Target {
 		}
 		if tgt, err = geom.Intersection(tgt, open); err != nil {
 			t.Fatal(err)
+		}
+		// Material within 0.01 mm of the reachable boundary counts as
+		// reached: the same 0.01 mm the simulation allows above a floor
+		// (engage.SimOptions.Tolerance), applied sideways, which also
+		// covers the chord tolerance the planner keeps from the walls.
+		if tgt, err = offset.Offset(tgt, -0.01, 0.001); err != nil {
+			t.Fatal(err)
+		}
+		if len(tgt) == 0 {
+			continue // nothing of this feature is reachable at its floor
 		}
 		out = append(out, engage.Target{Name: f.Name, Region: tgt, Floor: j.Stock.Top - f.Depth})
 	}
