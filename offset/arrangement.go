@@ -31,6 +31,7 @@ type grid struct {
 	ox, oy float64 // origin (grid units)
 	cs     float64 // cell size (grid units)
 	nx, ny int
+	m      float64 // margin of cells (grid units); 0 means 2
 }
 
 func (g *grid) col(x float64) int {
@@ -47,10 +48,13 @@ func (g *grid) cellOf(p ipt) int {
 	return g.row(float64(p.y)-g.oy)*g.nx + g.col(float64(p.x)-g.ox)
 }
 
-// cells appends to buf every cell that comes within a margin of 2 grid units
-// of segment ab.
+// cells appends to buf every cell that comes within the margin (2 grid
+// units by default) of segment ab.
 func (g *grid) cells(a, b ipt, buf []int32) []int32 {
-	const m = 2.0
+	m := 2.0
+	if g.m > 0 {
+		m = g.m
+	}
 	ax, ay := float64(a.x)-g.ox, float64(a.y)-g.oy
 	bx, by := float64(b.x)-g.ox, float64(b.y)-g.oy
 	if math.Abs(bx-ax) >= math.Abs(by-ay) {
@@ -98,6 +102,7 @@ type arrangement struct {
 	g            grid
 	cellStart    []int32 // CSR: raw segments per cell
 	cellSegs     []int32
+	segParent    []int32 // segment whose cell lists a piece uses, after splitting
 	segCells     []int32 // CSR: cells per raw segment
 	segCellStart []int32
 	hot          []ipt   // hot pixel centres, sorted, unique
@@ -133,7 +138,12 @@ func (a *arrangement) dst(h int32) int32 { return a.org(h ^ 1) }
 // pruned, when not nil, marks segments (pruned[c][i] for c[i]→c[i+1]) that
 // provably lie inside {winding ≥ 1} or inside {winding ≤ 0} with a margin
 // (see prune.go): they are not noded and only count in winding numbers.
-func windingBoundary(chains [][]ipt, pruned [][]bool, budget int) ([][]ipt, error) {
+//
+// arcs, when not nil, tells which segments are arc chords (arcs[c][i] is
+// the index into centres of the arc's centre, or −1), for the exact corner
+// pass (corners.go) with arc radius R and chord tolerance tol, both in grid
+// units.
+func windingBoundary(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt, R, tol float64, budget int) ([][]ipt, error) {
 	a := &arrangement{budget: budget}
 	total := 0
 	for _, c := range chains {
@@ -142,7 +152,20 @@ func windingBoundary(chains [][]ipt, pruned [][]bool, budget int) ([][]ipt, erro
 	a.pts = make([]ipt, 0, total)
 	a.sa = make([]int32, 0, total)
 	a.sb = make([]int32, 0, total)
+	var cp *cornerPass
+	if arcs != nil {
+		cp = &cornerPass{centres: centres, R: R, chainBase: make([]int32, len(chains)+1)}
+		cp.sarc = make([]int32, 0, total)
+		cp.idOf = make([]int32, total)
+		for i := range cp.idOf {
+			cp.idOf[i] = -1
+		}
+	}
 	for k, c := range chains {
+		if cp != nil {
+			cp.chainBase[k] = int32(len(a.pts))
+			cp.chainBase[k+1] = int32(len(a.pts) + len(c))
+		}
 		if len(c) < 2 {
 			continue
 		}
@@ -158,6 +181,11 @@ func windingBoundary(chains [][]ipt, pruned [][]bool, budget int) ([][]ipt, erro
 				a.pb = append(a.pb, c[j])
 				continue
 			}
+			if cp != nil {
+				cp.idOf[base+int32(i)] = int32(len(a.sa))
+				cp.sarc = append(cp.sarc, arcs[k][i])
+				cp.chain = append(cp.chain, int32(k))
+			}
 			a.sa = append(a.sa, base+int32(i))
 			a.sb = append(a.sb, base+int32(j))
 		}
@@ -165,7 +193,13 @@ func windingBoundary(chains [][]ipt, pruned [][]bool, budget int) ([][]ipt, erro
 	if len(a.sa) == 0 {
 		return nil, nil
 	}
+	if cp != nil {
+		a.g.m = 4 + tol
+	}
 	a.buildGrid()
+	if cp != nil {
+		a.exactCorners(cp)
+	}
 	if err := a.snapRound(); err != nil {
 		return nil, err
 	}
@@ -201,7 +235,7 @@ func (a *arrangement) buildGrid() {
 	}
 	w, h := float64(maxX-minX)+1, float64(maxY-minY)+1
 	cs := max(total/n, math.Sqrt(w*h/n), 16)
-	g := grid{ox: float64(minX), oy: float64(minY), cs: cs}
+	g := grid{ox: float64(minX), oy: float64(minY), cs: cs, m: a.g.m}
 	g.nx = int(w/cs) + 1
 	g.ny = int(h/cs) + 1
 	a.g = g
@@ -384,7 +418,11 @@ func (a *arrangement) snapRound() error {
 		x0, y0 := min(p.x, q.x)-1, min(p.y, q.y)-1
 		x1, y1 := max(p.x, q.x)+1, max(p.y, q.y)+1
 		cands = cands[:0]
-		for _, c := range a.segCells[a.segCellStart[s]:a.segCellStart[s+1]] {
+		ps := s
+		if a.segParent != nil {
+			ps = int(a.segParent[s])
+		}
+		for _, c := range a.segCells[a.segCellStart[ps]:a.segCellStart[ps+1]] {
 			for _, id := range a.hotIDs[a.hotStart[c]:a.hotStart[c+1]] {
 				h := a.hot[id]
 				if h.x < x0 || h.x > x1 || h.y < y0 || h.y > y1 || id == ip || id == iq {

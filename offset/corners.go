@@ -18,92 +18,83 @@ import (
 // nothing else changes; the two curves then cross at the exact corner
 // (up to the grid), whatever α is.
 
-// exactCorners returns the chains with the true crossing points inserted
-// where arc chords cross other kept segments. arcs[c][i] is the input vertex
-// (an index into centres) of the arc that segment c[i]→c[i+1] is a chord
-// of, or −1; r is the arc radius in mm.
-func exactCorners(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt, r float64) ([][]ipt, [][]bool) {
-	total := 0
+// cornerPass holds what the exact corner pass needs besides the
+// arrangement: per kept segment its arc (an index into centres, or −1) and
+// chain, the kept segment starting at each raw vertex (or −1), the first
+// raw vertex of each chain, and the arc radius R in grid units.
+type cornerPass struct {
+	centres   []ipt
+	R         float64
+	sarc      []int32
+	chain     []int32
+	idOf      []int32
+	chainBase []int32
+}
+
+// exactCorners inserts the true crossing points where arc chords cross
+// other kept segments, before snap rounding. The grid cells of every
+// segment were taken with a margin of tol + 4 grid units, so the pieces of
+// a split segment, which stay within tol of it, are still covered by its
+// cells.
+func (a *arrangement) exactCorners(cp *cornerPass) {
 	anyArc := false
-	for c := range chains {
-		total += len(chains[c])
-		for _, v := range arcs[c] {
-			anyArc = anyArc || v >= 0
+	for _, v := range cp.sarc {
+		if v >= 0 {
+			anyArc = true
+			break
 		}
 	}
 	if !anyArc {
-		return chains, pruned
+		return
 	}
-	sa := make([]ipt, 0, total)
-	sb := make([]ipt, 0, total)
-	sc := make([]int32, 0, total)
-	si := make([]int32, 0, total)
-	sarc := make([]int32, 0, total)
-	for c, ch := range chains {
-		n := len(ch)
-		for i := range ch {
-			j := (i + 1) % n
-			if pruned[c][i] || ch[i] == ch[j] {
-				continue
-			}
-			sa = append(sa, ch[i])
-			sb = append(sb, ch[j])
-			sc = append(sc, int32(c))
-			si = append(si, int32(i))
-			sarc = append(sarc, arcs[c][i])
+	pts, sa, sb, sarc := a.pts, a.sa, a.sb, cp.sarc
+	// neighbour returns the kept chord of the same arc before (step −1)
+	// or after (+1) kept segment e, or −1.
+	neighbour := func(e int32, step int32) int32 {
+		c := cp.chain[e]
+		b0, b1 := cp.chainBase[c], cp.chainBase[c+1]
+		v := sa[e] + step
+		if step > 0 {
+			v = sb[e]
 		}
-	}
-	// Kept segment ids by chain and index, for the neighbours of a chord.
-	idOf := make([][]int32, len(chains))
-	flat := make([]int32, total)
-	for i := range flat {
-		flat[i] = -1
-	}
-	for c, ch := range chains {
-		idOf[c], flat = flat[:len(ch):len(ch)], flat[len(ch):]
-	}
-	for e := range sa {
-		idOf[sc[e]][si[e]] = int32(e)
-	}
-	neighbour := func(e int32, step int) int32 {
-		ch := idOf[sc[e]]
-		f := ch[(int(si[e])+step+len(ch))%len(ch)]
+		if v < b0 {
+			v = b1 - 1
+		}
+		f := cp.idOf[v]
 		if f < 0 || sarc[f] != sarc[e] {
 			return -1
 		}
 		return f
 	}
-	g, start, segs := bucketSegments(sa, sb)
-	R := r * gridScale
 	type ins struct {
 		seg int32
 		t   float64
 		p   ipt
 	}
 	var found []ins
-	moves := map[[2]int32]ipt{}
+	var moves map[int32]ipt
 	insert := func(e int32, x, y float64) {
 		q := ipt{int64(math.Round(x)), int64(math.Round(y))}
-		if q == sa[e] || q == sb[e] {
+		p0, p1 := pts[sa[e]], pts[sb[e]]
+		if q == p0 || q == p1 {
 			return
 		}
-		dx, dy := float64(sb[e].x-sa[e].x), float64(sb[e].y-sa[e].y)
-		found = append(found, ins{e, (x-float64(sa[e].x))*dx + (y-float64(sa[e].y))*dy, q})
+		dx, dy := float64(p1.x-p0.x), float64(p1.y-p0.y)
+		found = append(found, ins{e, (x-float64(p0.x))*dx + (y-float64(p0.y))*dy, q})
 	}
-	// onCircle moves the shared vertex v of two chords of arc c radially
-	// onto the circle.
-	onCircle := func(e int32, end int, c ipt) {
-		v := sa[e]
-		key := [2]int32{sc[e], si[e]}
-		if end == 1 {
-			v = sb[e]
-			key[1] = (si[e] + 1) % int32(len(chains[sc[e]]))
+	// onCircle moves raw vertex v, shared by two kept chords of the arc
+	// about c, radially onto the circle.
+	onCircle := func(v int32, c ipt) {
+		if moves == nil {
+			moves = map[int32]ipt{}
 		}
-		dx, dy := float64(v.x-c.x), float64(v.y-c.y)
-		k := R / math.Hypot(dx, dy)
-		if _, ok := moves[key]; !ok {
-			moves[key] = ipt{c.x + int64(math.Round(k*dx)), c.y + int64(math.Round(k*dy))}
+		if _, ok := moves[v]; ok {
+			return
 		}
+		p := pts[v]
+		dx, dy := float64(p.x-c.x), float64(p.y-c.y)
+		k := cp.R / math.Hypot(dx, dy)
+		moves[v] = ipt{c.x + int64(math.Round(k*dx)), c.y + int64(math.Round(k*dy))}
 	}
 	// place puts the true crossing (x, y) on segment e's curve.
 	place := func(e int32, x, y float64) {
@@ -111,41 +102,43 @@ func exactCorners(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt
 			insert(e, x, y)
 			return
 		}
-		c := centres[sarc[e]]
-		switch arcSide(sa[e], sb[e], c, x, y) {
+		c := cp.centres[sarc[e]]
+		switch arcSide(pts[sa[e]], pts[sb[e]], c, x, y) {
 		case 0:
 			insert(e, x, y)
 		case 1: // beyond the chord's end: into the next chord
-			if f := neighbour(e, 1); f >= 0 && arcSide(sa[f], sb[f], c, x, y) == 0 {
-				onCircle(e, 1, c)
+			if f := neighbour(e, 1); f >= 0 && arcSide(pts[sa[f]], pts[sb[f]], c, x, y) == 0 {
+				onCircle(sb[e], c)
 				insert(f, x, y)
 			}
 		case -1: // before its start: into the previous chord
-			if f := neighbour(e, -1); f >= 0 && arcSide(sa[f], sb[f], c, x, y) == 0 {
-				onCircle(e, 0, c)
+			if f := neighbour(e, -1); f >= 0 && arcSide(pts[sa[f]], pts[sb[f]], c, x, y) == 0 {
+				onCircle(sa[e], c)
 				insert(f, x, y)
 			}
 		}
 	}
-	for c := 0; c+1 < len(start); c++ {
-		list := segs[start[c]:start[c+1]]
+	g := &a.g
+	for c := 0; c+1 < len(a.cellStart); c++ {
+		list := a.cellSegs[a.cellStart[c]:a.cellStart[c+1]]
 		for k, s := range list {
 			for _, t := range list[k+1:] {
 				if sarc[s] < 0 && sarc[t] < 0 {
 					continue
 				}
-				if !boxesMeet(sa[s], sb[s], sa[t], sb[t]) || !properCross(sa[s], sb[s], sa[t], sb[t]) {
+				p1, p2, q1, q2 := pts[sa[s]], pts[sb[s]], pts[sa[t]], pts[sb[t]]
+				if !boxesMeet(p1, p2, q1, q2) || !properCross(p1, p2, q1, q2) {
 					continue
 				}
 				s1, t1 := s, t
 				if s1 > t1 {
 					s1, t1 = t1, s1
 				}
-				px, py := crossPoint(sa[s1], sb[s1], sa[t1], sb[t1])
+				px, py := crossPoint(pts[sa[s1]], pts[sb[s1]], pts[sa[t1]], pts[sb[t1]])
 				if g.row(py-g.oy)*g.nx+g.col(px-g.ox) != c {
 					continue // reported in the cell holding the crossing
 				}
-				x, y, ok := trueCrossing(sa, sb, sarc, centres, s1, t1, px, py, R)
+				x, y, ok := trueCrossing(pts[sa[s1]], pts[sb[s1]], sarc[s1], pts[sa[t1]], pts[sb[t1]], sarc[t1], cp.centres, px, py, cp.R)
 				if !ok {
 					continue
 				}
@@ -155,53 +148,70 @@ func exactCorners(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt
 		}
 	}
 	if len(found) == 0 {
-		return chains, pruned
+		return
 	}
-	slices.SortFunc(found, func(a, b ins) int {
-		if a.seg != b.seg {
-			return int(a.seg - b.seg)
+	for v, p := range moves {
+		a.pts[v] = p
+	}
+	slices.SortFunc(found, func(u, v ins) int {
+		if u.seg != v.seg {
+			return int(u.seg - v.seg)
 		}
 		switch {
-		case a.t < b.t:
+		case u.t < v.t:
 			return -1
-		case a.t > b.t:
+		case u.t > v.t:
 			return 1
 		}
 		return 0
 	})
-	// Rebuild the chains that got new vertices.
-	outC := slices.Clone(chains)
-	outP := slices.Clone(pruned)
-	for k := 0; k < len(found); {
-		c := sc[found[k].seg]
-		ch, pr := slices.Clone(chains[c]), pruned[c]
-		for key, p := range moves {
-			if key[0] == int32(c) {
-				ch[key[1]] = p
-			}
-		}
-		nc := make([]ipt, 0, len(ch)+8)
-		np := make([]bool, 0, len(ch)+8)
-		for i := range ch {
-			if len(nc) > 0 && ch[i] == nc[len(nc)-1] {
+	// Split the segments, keeping each piece's parent for its cells.
+	ns := len(sa)
+	nsa := make([]int32, 0, ns+len(found))
+	nsb := make([]int32, 0, ns+len(found))
+	parent := make([]int32, 0, ns+len(found))
+	first := make([]int32, ns+1) // pieces of segment e: first[e]..first[e+1]
+	k := 0
+	for e := 0; e < ns; e++ {
+		first[e] = int32(len(nsa))
+		from := sa[e]
+		for ; k < len(found) && found[k].seg == int32(e); k++ {
+			q := found[k].p
+			if q == a.pts[from] || q == a.pts[sb[e]] {
 				continue
 			}
-			nc = append(nc, ch[i])
-			np = append(np, pr[i])
-			for k < len(found) && sc[found[k].seg] == int32(c) && si[found[k].seg] == int32(i) {
-				if p := found[k].p; p != nc[len(nc)-1] && p != ch[(i+1)%len(ch)] {
-					nc = append(nc, p)
-					np = append(np, false)
-				}
-				k++
+			a.pts = append(a.pts, q)
+			v := int32(len(a.pts) - 1)
+			nsa, nsb, parent = append(nsa, from), append(nsb, v), append(parent, int32(e))
+			from = v
+		}
+		if a.pts[from] != a.pts[sb[e]] {
+			nsa, nsb, parent = append(nsa, from), append(nsb, sb[e]), append(parent, int32(e))
+		}
+	}
+	first[ns] = int32(len(nsa))
+	// Cell lists of the pieces from those of their segments.
+	ncell := len(a.cellStart) - 1
+	start := make([]int32, ncell+1)
+	for c := 0; c < ncell; c++ {
+		n := int32(0)
+		for _, e := range a.cellSegs[a.cellStart[c]:a.cellStart[c+1]] {
+			n += first[e+1] - first[e]
+		}
+		start[c+1] = start[c] + n
+	}
+	segs := make([]int32, start[ncell])
+	for c := 0; c < ncell; c++ {
+		o := start[c]
+		for _, e := range a.cellSegs[a.cellStart[c]:a.cellStart[c+1]] {
+			for f := first[e]; f < first[e+1]; f++ {
+				segs[o] = f
+				o++
 			}
 		}
-		for len(nc) > 1 && nc[len(nc)-1] == nc[0] {
-			nc, np = nc[:len(nc)-1], np[:len(np)-1]
-		}
-		outC[c], outP[c] = nc, np
 	}
-	return outC, outP
+	a.sa, a.sb, a.segParent = nsa, nsb, parent
+	a.cellStart, a.cellSegs = start, segs
 }
 
 // arcSide tells where the point (x, y) lies, seen from the arc centre c,
@@ -221,19 +231,20 @@ func arcSide(a, b, c ipt, x, y float64) int {
 	return 0
 }
 
-// trueCrossing returns the crossing of the true curves of segments s and t
+// trueCrossing returns the crossing of the true curves of segments sa→sb and
+// ta→tb
 // (at least one an arc chord) nearest to their crossing (px, py), in grid
 // units, and whether there is one (inside the straight segment, if any).
-func trueCrossing(sa, sb []ipt, sarc []int32, centres []ipt, s, t int32, px, py, R float64) (float64, float64, bool) {
-	if sarc[s] < 0 {
-		s, t = t, s
+func trueCrossing(sa, sb ipt, sarc int32, ta, tb ipt, tarc int32, centres []ipt, px, py, R float64) (float64, float64, bool) {
+	if sarc < 0 {
+		sa, sb, sarc, ta, tb, tarc = ta, tb, tarc, sa, sb, sarc
 	}
 	// Work relative to (px, py) to keep the numbers small.
-	cs := centres[sarc[s]]
+	cs := centres[sarc]
 	cx, cy := float64(cs.x)-px, float64(cs.y)-py
 	var x, y float64
-	if sarc[t] >= 0 {
-		ct := centres[sarc[t]]
+	if tarc >= 0 {
+		ct := centres[tarc]
 		ex, ey := float64(ct.x)-px, float64(ct.y)-py
 		dx, dy := ex-cx, ey-cy
 		dd := dx*dx + dy*dy
@@ -250,8 +261,8 @@ func trueCrossing(sa, sb []ipt, sarc []int32, centres []ipt, s, t int32, px, py,
 			x, y = x2, y2
 		}
 	} else {
-		ax, ay := float64(sa[t].x)-px, float64(sa[t].y)-py
-		dx, dy := float64(sb[t].x-sa[t].x), float64(sb[t].y-sa[t].y)
+		ax, ay := float64(ta.x)-px, float64(ta.y)-py
+		dx, dy := float64(tb.x-ta.x), float64(tb.y-ta.y)
 		A := dx*dx + dy*dy
 		B := (ax-cx)*dx + (ay-cy)*dy
 		C := (ax-cx)*(ax-cx) + (ay-cy)*(ay-cy) - R*R

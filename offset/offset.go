@@ -257,8 +257,7 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 		centres = append(centres, q...)
 		base += int32(len(q))
 	}
-	chains, pruned = exactCorners(chains, pruned, arcs, centres, r)
-	bnd, err := windingBoundary(chains, pruned, MaxVertices)
+	bnd, err := windingBoundary(chains, pruned, arcs, centres, r*gridScale, tol*gridScale, MaxVertices)
 	if err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
 	}
