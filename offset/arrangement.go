@@ -273,47 +273,6 @@ type hotItem struct {
 	src int32
 }
 
-// sortHot sorts hot pixel candidates by point (x, then y). When the
-// coordinates span less than 2³² grid units (4 m) each way, it sorts packed
-// 64-bit keys, which is several times faster than a comparison sort.
-func sortHot(items []hotItem) {
-	if len(items) == 0 {
-		return
-	}
-	minX, minY := items[0].p.x, items[0].p.y
-	maxX, maxY := minX, minY
-	for _, it := range items {
-		minX, maxX = min(minX, it.p.x), max(maxX, it.p.x)
-		minY, maxY = min(minY, it.p.y), max(maxY, it.p.y)
-	}
-	if maxX-minX >= 1<<32 || maxY-minY >= 1<<32 {
-		slices.SortFunc(items, func(p, q hotItem) int { return cmpIpt(p.p, q.p) })
-		return
-	}
-	type kv struct {
-		k uint64
-		i int32
-	}
-	keys := make([]kv, len(items))
-	for i, it := range items {
-		keys[i] = kv{uint64(it.p.x-minX)<<32 | uint64(it.p.y-minY), int32(i)}
-	}
-	slices.SortFunc(keys, func(a, b kv) int {
-		switch {
-		case a.k < b.k:
-			return -1
-		case a.k > b.k:
-			return 1
-		}
-		return int(a.i - b.i)
-	})
-	tmp := make([]hotItem, len(items))
-	for i, k := range keys {
-		tmp[i] = items[k.i]
-	}
-	copy(items, tmp)
-}
-
 // snapRound finds the hot pixels and routes every raw segment through them.
 func (a *arrangement) snapRound() error {
 	ns := len(a.sa)
@@ -374,15 +333,30 @@ func (a *arrangement) snapRound() error {
 			}
 		}
 	}
-	sortHot(items)
+	// Distinct hot pixels, numbered in order of first appearance, through
+	// an open-addressing hash table.
 	a.rawHot = make([]int32, len(a.pts))
-	a.hot = a.hot[:0]
-	for i, it := range items {
-		if i == 0 || it.p != items[i-1].p {
+	a.hot = make([]ipt, 0, len(items))
+	size := 1
+	for size < 2*len(items) {
+		size <<= 1
+	}
+	table := make([]int32, size)
+	for i := range table {
+		table[i] = -1
+	}
+	for _, it := range items {
+		hsh := (uint64(it.p.x)*0x9E3779B97F4A7C15 ^ uint64(it.p.y)*0xC2B2AE3D27D4EB4F) >> 17
+		j := int(hsh) & (size - 1)
+		for table[j] >= 0 && a.hot[table[j]] != it.p {
+			j = (j + 1) & (size - 1)
+		}
+		if table[j] < 0 {
+			table[j] = int32(len(a.hot))
 			a.hot = append(a.hot, it.p)
 		}
 		if it.src >= 0 {
-			a.rawHot[it.src] = int32(len(a.hot) - 1)
+			a.rawHot[it.src] = table[j]
 		}
 	}
 	// Hot pixels per cell.
