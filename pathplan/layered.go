@@ -49,6 +49,9 @@ func PlanLayered(ctx context.Context, job *Job, opt Options) (*Plan, error) {
 	if job.Cut.Layered == (Layered{}) {
 		return nil, jobErrorf("", "cut.layered (stepover and stepdown) is needed by the layered strategy")
 	}
+	if err := checkPathBudget(job, "layered"); err != nil {
+		return nil, err
+	}
 	p, err := newPlanner(ctx, job, opt)
 	if err != nil {
 		return nil, err
@@ -178,6 +181,9 @@ func (p *planner) run() (*Plan, error) {
 		for li, z := range levels[fi] {
 			if err := p.ctx.Err(); err != nil {
 				return nil, err
+			}
+			if len(p.b.path.Moves) > MaxMoves {
+				return nil, errTooManyMoves
 			}
 			var mask []int
 			key := ""
