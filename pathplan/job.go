@@ -211,7 +211,7 @@ func readJob(r io.Reader, dir string) (*Job, error) {
 	dec.DisallowUnknownFields()
 	var w jobJSON
 	if err := dec.Decode(&w); err != nil {
-		return nil, jsonError(data, err)
+		return nil, jsonError(data, err, dec.InputOffset())
 	}
 	if _, err := dec.Token(); !errors.Is(err, io.EOF) {
 		return nil, jobErrorf("", "unexpected data after the JSON object")
@@ -241,8 +241,9 @@ func LoadJob(path string) (*Job, error) {
 	return j, nil
 }
 
-// jsonError turns a decoding error into a JobError with a line number.
-func jsonError(data []byte, err error) error {
+// jsonError turns a decoding error into a JobError with a line number; at
+// is the decoder's offset when it stopped, used where the error has none.
+func jsonError(data []byte, err error, at int64) error {
 	line := func(off int64) int {
 		if off > int64(len(data)) {
 			off = int64(len(data))
@@ -259,7 +260,7 @@ func jsonError(data []byte, err error) error {
 	case errors.As(err, &te):
 		return jobErrorf("", "line %d: key %q: expected %v, got JSON %s", line(te.Offset), te.Field, te.Type, te.Value)
 	case strings.HasPrefix(err.Error(), "json: unknown field "):
-		return jobErrorf("", "unknown key %s", strings.TrimPrefix(err.Error(), "json: unknown field "))
+		return jobErrorf("", "line %d: unknown key %s", line(at), strings.TrimPrefix(err.Error(), "json: unknown field "))
 	}
 	return jobErrorf("", "JSON: %v", err)
 }
