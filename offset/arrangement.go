@@ -149,9 +149,21 @@ func windingBoundary(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []
 	for _, c := range chains {
 		total += len(c)
 	}
-	a.pts = make([]ipt, 0, total)
+	a.pts = make([]ipt, 0, total+total/8)
 	a.sa = make([]int32, 0, total)
 	a.sb = make([]int32, 0, total)
+	if pruned != nil {
+		np := 0
+		for _, p := range pruned {
+			for _, b := range p {
+				if b {
+					np++
+				}
+			}
+		}
+		a.pa = make([]ipt, 0, np)
+		a.pb = make([]ipt, 0, np)
+	}
 	var cp *cornerPass
 	if arcs != nil {
 		cp = &cornerPass{centres: centres, R: R, chainBase: make([]int32, len(chains)+1)}
@@ -283,11 +295,17 @@ func (a *arrangement) snapRound() error {
 		boxes[i] = box{min(p.x, q.x), min(p.y, q.y), max(p.x, q.x), max(p.y, q.y)}
 	}
 	// Hot pixels of the raw vertices that kept segments use.
-	items := make([]hotItem, 0, 2*ns+ns/4)
 	used := make([]bool, len(a.pts))
+	nu := 0
 	for i := range a.sa {
-		used[a.sa[i]], used[a.sb[i]] = true, true
+		for _, v := range [2]int32{a.sa[i], a.sb[i]} {
+			if !used[v] {
+				used[v] = true
+				nu++
+			}
+		}
 	}
+	items := make([]hotItem, 0, nu+nu/8+16)
 	for i, p := range a.pts {
 		if used[i] {
 			items = append(items, hotItem{p, int32(i)})
@@ -452,6 +470,9 @@ func (a *arrangement) buildGraph() {
 		}
 	}
 	slices.Sort(keys)
+	a.eu = make([]int32, 0, len(keys))
+	a.ev = make([]int32, 0, len(keys))
+	a.ec = make([]int32, 0, len(keys))
 	for i := 0; i < len(keys); {
 		k := keys[i] >> 1
 		c := int32(0)

@@ -381,9 +381,10 @@ func rawCurve(q []ipt, d, step, tol float64, base int32, pr *pruner) ([]ipt, []b
 	// i. src[k] is the input edge the segment ending at out[k] comes from
 	// (for a join: the edge before its vertex); src[0] is for the closing
 	// segment.
-	out := make([]ipt, 0, 2*n+8)
-	src := make([]int32, 0, 2*n+8)
-	arc := make([]int32, 0, 2*n+8) // input vertex of the arc the segment ending here is a chord of, or −1
+	est := 3*n + arcBudget(q, right, step) + 8
+	out := make([]ipt, 0, est)
+	src := make([]int32, 0, est)
+	arc := make([]int32, 0, est) // input vertex of the arc the segment ending here is a chord of, or −1
 	arcAt := int32(-1)
 	add := func(g ipt, e int) {
 		if len(out) == 0 || out[len(out)-1] != g {

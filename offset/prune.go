@@ -231,12 +231,8 @@ func (p *pruner) covered(a, b ipt, e int32) bool {
 	if p.certifies(p.last, ax, ay, bx, by) {
 		return true
 	}
-	for _, f := range [3]int32{e, p.next[e], p.prev[e]} {
-		if p.certifies(f, ax, ay, bx, by) {
-			p.last = f
-			return true
-		}
-	}
+	// A local nearest edge of the midpoint; when even that is beyond the
+	// threshold, the segment has a point beyond it and cannot be pruned.
 	mx, my := (ax+bx)/2, (ay+by)/2
 	w := p.wit[p.cell(mx, my)]
 	if w < 0 {
@@ -249,6 +245,12 @@ func (p *pruner) covered(a, b ipt, e int32) bool {
 	if p.certifies(f, ax, ay, bx, by) {
 		p.last = f
 		return true
+	}
+	for _, g := range [3]int32{e, p.next[e], p.prev[e]} {
+		if g != f && p.certifies(g, ax, ay, bx, by) {
+			p.last = g
+			return true
+		}
 	}
 	// The endpoints may have different nearest edges; try each.
 	if g, _ := p.descend(ax, ay, f); g != f && p.certifies(g, ax, ay, bx, by) {
