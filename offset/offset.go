@@ -29,6 +29,15 @@
 // resulting planar graph is computed, and the edges between winding ≥ 1 and
 // winding ≤ 0 are linked into simple rings.
 //
+// Three things keep this fast and accurate. Raw segments that lie entirely
+// within |d| − tol of a simple input's boundary can never bound the result
+// (prune.go); they are left out of the noding and only count in exact ray
+// counts that classify the faces (arrangement.go). Where an arc polyline
+// crosses another raw curve, the exact crossing of the true curves is
+// inserted into both before noding, so that narrow wedges of the result end
+// where they should (corners.go). Inward arc polylines are area-balanced
+// (arcRadius).
+//
 // # Conventions
 //
 // Units are millimetres. Results are normalised (outer rings
