@@ -95,9 +95,8 @@ func (g *grid) cells(a, b ipt, buf []int32) []int32 {
 type arrangement struct {
 	budget int
 
-	pa, pb []ipt // pruned raw segments pa[i] → pb[i]
-
 	pts          []ipt   // raw vertices
+	pa, pb       []int32 // pruned raw segments pa[i] → pb[i]
 	sa, sb       []int32 // raw segments sa[i] → sb[i]
 	g            grid
 	cellStart    []int32 // CSR: raw segments per cell
@@ -133,73 +132,71 @@ func (a *arrangement) dst(h int32) int32 { return a.org(h ^ 1) }
 
 // windingBoundary returns the boundary of {winding ≥ 1} of the closed chains
 // as simple rings, each with the set on its left (outer rings
-// counter-clockwise, holes clockwise).
+// counter-clockwise, holes clockwise). Chain k is
+// pts[chainStart[k]:chainStart[k+1]]; windingBoundary takes pts over and
+// may change it.
 //
-// pruned, when not nil, marks segments (pruned[c][i] for c[i]→c[i+1]) that
-// provably lie inside {winding ≥ 1} or inside {winding ≤ 0} with a margin
-// (see prune.go): they are not noded and only count in winding numbers.
+// pruned, when not nil, marks segments (pruned[i] for pts[i] → the next
+// vertex of its chain) that provably lie inside {winding ≥ 1} or inside
+// {winding ≤ 0} with a margin (see prune.go): they are not noded and only
+// count in winding numbers.
 //
-// arcs, when not nil, tells which segments are arc chords (arcs[c][i] is
-// the index into centres of the arc's centre, or −1), for the exact corner
+// arcs, when not nil, tells which segments are arc chords (arcs[i] is the
+// index into centres of the arc's centre, or −1), for the exact corner
 // pass (corners.go) with arc radius R and chord tolerance tol, both in grid
 // units.
-func windingBoundary(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []ipt, R, tol float64, budget int) ([][]ipt, error) {
+func windingBoundary(pts []ipt, chainStart []int32, pruned []bool, arcs []int32, centres []ipt, R, tol float64, budget int) ([][]ipt, error) {
 	a := &arrangement{budget: budget}
-	total := 0
-	for _, c := range chains {
-		total += len(c)
-	}
-	a.pts = make([]ipt, 0, total+total/8)
-	a.sa = make([]int32, 0, total)
-	a.sb = make([]int32, 0, total)
-	if pruned != nil {
-		np := 0
-		for _, p := range pruned {
-			for _, b := range p {
-				if b {
-					np++
-				}
-			}
+	total := len(pts)
+	nchain := len(chainStart) - 1
+	np := 0
+	for _, b := range pruned {
+		if b {
+			np++
 		}
-		a.pa = make([]ipt, 0, np)
-		a.pb = make([]ipt, 0, np)
+	}
+	a.pts = pts
+	a.sa = make([]int32, 0, total-np)
+	a.sb = make([]int32, 0, total-np)
+	if np > 0 {
+		a.pa = make([]int32, 0, np)
+		a.pb = make([]int32, 0, np)
 	}
 	var cp *cornerPass
 	if arcs != nil {
-		cp = &cornerPass{centres: centres, R: R, chainBase: make([]int32, len(chains)+1)}
-		cp.sarc = make([]int32, 0, total)
+		cp = &cornerPass{centres: centres, R: R, chainBase: chainStart}
+		cp.sarc = make([]int32, 0, total-np)
+		cp.chain = make([]int32, 0, total-np)
 		cp.idOf = make([]int32, total)
 		for i := range cp.idOf {
 			cp.idOf[i] = -1
 		}
 	}
-	for k, c := range chains {
-		if cp != nil {
-			cp.chainBase[k] = int32(len(a.pts))
-			cp.chainBase[k+1] = int32(len(a.pts) + len(c))
-		}
-		if len(c) < 2 {
+	for k := 0; k < nchain; k++ {
+		b0, b1 := chainStart[k], chainStart[k+1]
+		if b1-b0 < 2 {
 			continue
 		}
-		base := int32(len(a.pts))
-		a.pts = append(a.pts, c...)
-		for i := range c {
-			j := (i + 1) % len(c)
-			if c[i] == c[j] {
+		for i := b0; i < b1; i++ {
+			j := i + 1
+			if j == b1 {
+				j = b0
+			}
+			if pts[i] == pts[j] {
 				continue
 			}
-			if pruned != nil && pruned[k][i] {
-				a.pa = append(a.pa, c[i])
-				a.pb = append(a.pb, c[j])
+			if pruned != nil && pruned[i] {
+				a.pa = append(a.pa, i)
+				a.pb = append(a.pb, j)
 				continue
 			}
 			if cp != nil {
-				cp.idOf[base+int32(i)] = int32(len(a.sa))
-				cp.sarc = append(cp.sarc, arcs[k][i])
+				cp.idOf[i] = int32(len(a.sa))
+				cp.sarc = append(cp.sarc, arcs[i])
 				cp.chain = append(cp.chain, int32(k))
 			}
-			a.sa = append(a.sa, base+int32(i))
-			a.sb = append(a.sb, base+int32(j))
+			a.sa = append(a.sa, i)
+			a.sb = append(a.sb, j)
 		}
 	}
 	if len(a.sa) == 0 {
@@ -233,51 +230,7 @@ func windingBoundary(chains [][]ipt, pruned [][]bool, arcs [][]int32, centres []
 }
 
 func (a *arrangement) buildGrid() {
-	minX, minY := int64(math.MaxInt64), int64(math.MaxInt64)
-	maxX, maxY := int64(math.MinInt64), int64(math.MinInt64)
-	for _, p := range a.pts {
-		minX, maxX = min(minX, p.x), max(maxX, p.x)
-		minY, maxY = min(minY, p.y), max(maxY, p.y)
-	}
-	n := float64(len(a.sa))
-	var total float64
-	for i := range a.sa {
-		p, q := a.pts[a.sa[i]], a.pts[a.sb[i]]
-		total += math.Hypot(float64(q.x-p.x), float64(q.y-p.y))
-	}
-	w, h := float64(maxX-minX)+1, float64(maxY-minY)+1
-	cs := max(total/n, math.Sqrt(w*h/n), 16)
-	g := grid{ox: float64(minX), oy: float64(minY), cs: cs, m: a.g.m}
-	g.nx = int(w/cs) + 1
-	g.ny = int(h/cs) + 1
-	a.g = g
-
-	ncell := g.nx * g.ny
-	count := make([]int32, ncell+1)
-	var buf []int32
-	flat := make([]int32, 0, 3*len(a.sa))
-	fstart := make([]int32, len(a.sa)+1)
-	for i := range a.sa {
-		fstart[i] = int32(len(flat))
-		buf = g.cells(a.pts[a.sa[i]], a.pts[a.sb[i]], buf[:0])
-		flat = append(flat, buf...)
-		for _, c := range buf {
-			count[c+1]++
-		}
-	}
-	fstart[len(a.sa)] = int32(len(flat))
-	for c := 0; c < ncell; c++ {
-		count[c+1] += count[c]
-	}
-	a.cellStart = slices.Clone(count)
-	a.segCells, a.segCellStart = flat, fstart
-	a.cellSegs = make([]int32, len(flat))
-	for i := range a.sa {
-		for _, c := range flat[fstart[i]:fstart[i+1]] {
-			a.cellSegs[count[c]] = int32(i)
-			count[c]++
-		}
-	}
+	a.g, a.cellStart, a.cellSegs, a.segCells, a.segCellStart = bucketSegments(a.pts, a.sa, a.sb, a.g.m)
 }
 
 type hotItem struct {
@@ -776,20 +729,6 @@ func (a *arrangement) link(keep []bool) [][]ipt {
 // face.
 func (a *arrangement) faceWindings() ([]bool, error) {
 	nh := len(a.adj)
-	ne := len(a.eu)
-	sa := make([]ipt, 0, ne+len(a.pa))
-	sb := make([]ipt, 0, ne+len(a.pa))
-	m := make([]int32, 0, ne+len(a.pa))
-	for e := 0; e < ne; e++ {
-		sa = append(sa, a.hot[a.eu[e]])
-		sb = append(sb, a.hot[a.ev[e]])
-		m = append(m, a.ec[e])
-	}
-	sa = append(sa, a.pa...)
-	sb = append(sb, a.pb...)
-	for range a.pa {
-		m = append(m, 1)
-	}
 	var faceHE []int32
 	for h0 := 0; h0 < nh; h0++ {
 		if a.face[h0] >= 0 {
@@ -801,7 +740,10 @@ func (a *arrangement) faceWindings() ([]bool, error) {
 		}
 		faceHE = append(faceHE, int32(h0))
 	}
-	ix := newRayIndex(sa, sb, m, len(faceHE))
+	// Two indexes, one for the graph edges (with their multiplicities)
+	// and one for the pruned segments; the winding number is the sum.
+	ixe := newRayIndex(a.hot, a.eu, a.ev, a.ec, len(faceHE))
+	ixp := newRayIndex(a.pts, a.pa, a.pb, nil, len(faceHE))
 	in := make([]bool, len(faceHE))
 	for f, h0 := range faceHE {
 		var w int32
@@ -811,7 +753,10 @@ func (a *arrangement) faceWindings() ([]bool, error) {
 		for _, t := range [3][3]int64{{1, 1, 2}, {3, 1, 4}, {1, 3, 4}} {
 			for h := h0; !found; {
 				p, q := a.hot[a.org(h)], a.hot[a.dst(h)]
-				w, found = ix.winding(ipt{t[0]*p.x + t[1]*q.x, t[0]*p.y + t[1]*q.y}, t[2], ipt{p.y - q.y, q.x - p.x})
+				pt, nr := ipt{t[0]*p.x + t[1]*q.x, t[0]*p.y + t[1]*q.y}, ipt{p.y - q.y, q.x - p.x}
+				we, oke := ixe.winding(pt, t[2], nr)
+				wp, okp := ixp.winding(pt, t[2], nr)
+				w, found = we+wp, oke && okp
 				if h = a.nxt[h]; h == h0 {
 					break
 				}

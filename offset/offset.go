@@ -232,6 +232,7 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 		step = min(step, 2*math.Acos(1-tol/r))
 	}
 	var rings [][]ipt
+	var arcN []int // arc vertices per ring
 	total := 0
 	for _, g := range s.Normalized() {
 		for _, ring := range g.Rings() {
@@ -239,8 +240,10 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 			if len(q) < 3 {
 				continue
 			}
+			nb := arcBudget(q, d > 0, step)
 			rings = append(rings, q)
-			total += 2*len(q) + arcBudget(q, d > 0, step)
+			arcN = append(arcN, nb)
+			total += 2*len(q) + nb
 			if total > MaxVertices {
 				return nil, fmt.Errorf("offset: %w: the raw offset curve would have more than %d vertices", ErrTooComplex, MaxVertices)
 			}
@@ -250,23 +253,29 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 	if simpleRings(rings) {
 		pr = newPruner(rings, d, tol)
 	}
-	chains := make([][]ipt, 0, len(rings))
-	pruned := make([][]bool, 0, len(rings))
-	arcs := make([][]int32, 0, len(rings))
+	// All raw curves go into one flat buffer: chain k is
+	// pts[chainStart[k]:chainStart[k+1]].
+	est := 0
+	for k, q := range rings {
+		est += 3*len(q) + arcN[k] + 8
+	}
+	cb := &curveBuf{
+		pts:        make([]ipt, 0, est),
+		arc:        make([]int32, 0, est),
+		chainStart: make([]int32, 1, len(rings)+1),
+	}
+	if pr != nil {
+		cb.pruned = make([]bool, 0, est)
+	}
 	var centres []ipt
 	base := int32(0)
 	for _, q := range rings {
-		c, p, ac := rawCurve(q, d, step, tol, base, pr)
-		if p == nil {
-			p = make([]bool, len(c))
-		}
-		chains = append(chains, c)
-		pruned = append(pruned, p)
-		arcs = append(arcs, ac)
+		rawCurve(cb, q, d, step, tol, base, pr)
+		cb.chainStart = append(cb.chainStart, int32(len(cb.pts)))
 		centres = append(centres, q...)
 		base += int32(len(q))
 	}
-	bnd, err := windingBoundary(chains, pruned, arcs, centres, r*gridScale, tol*gridScale, MaxVertices)
+	bnd, err := windingBoundary(cb.pts, cb.chainStart, cb.pruned, cb.arc, centres, r*gridScale, tol*gridScale, MaxVertices)
 	if err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
 	}
@@ -329,15 +338,17 @@ func arcBudget(q []ipt, right bool, step float64) int {
 // straight on). base is the index of q's first edge among all input edges
 // (for pr). When pr is not nil, the joins through the vertex get an extra
 // vertex where they come within pr's threshold of the vertex, and the
-// second result marks the segments (out[i]→out[i+1]) that pr certifies as
-// prunable.
-func rawCurve(q []ipt, d, step, tol float64, base int32, pr *pruner) ([]ipt, []bool, []int32) {
+// segments (out[i]→out[i+1]) that pr certifies as prunable are marked.
+// The curve is appended to cb.pts, per segment its arc (the input vertex
+// it is a chord about, or −1) to cb.arc and, when pr is not nil, its
+// pruning mark to cb.pruned; cb's scratch slices are reused.
+func rawCurve(cb *curveBuf, q []ipt, d, step, tol float64, base int32, pr *pruner) {
 	n := len(q)
 	right := d > 0
 	r := math.Abs(d)
 	// Unit normals towards the offset side, in mm.
-	nx := make([]float64, n)
-	ny := make([]float64, n)
+	cb.grow(n)
+	nx, ny, short, xs := cb.nx, cb.ny, cb.short, cb.xs
 	for i := 0; i < n; i++ {
 		a, b := q[i], q[(i+1)%n]
 		ex, ey := float64(b.x-a.x), float64(b.y-a.y)
@@ -354,12 +365,13 @@ func rawCurve(q []ipt, d, step, tol float64, base int32, pr *pruner) ([]ipt, []b
 	// crossing X) lies in the rectangles of both edges, so the loop through
 	// the vertex can be cut off at X without changing which points have
 	// winding ≥ 1 (each point in m such kites lies in ≥ m+1 rectangles).
-	short := make([]bool, n) // join at q[(i+1)%n] cut at the crossing
-	xs := make([]geom.Point, n)
+	// short[i]: join at q[(i+1)%n] cut at the crossing xs[i].
 	for i := 0; i < n; i++ {
+		short[i] = false
 		a, b, c := q[i], q[(i+1)%n], q[(i+2)%n]
 		ux, uy, vx, vy := b.x-a.x, b.y-a.y, c.x-b.x, c.y-b.y
-		if ok, _ := convexFor(ux, uy, vx, vy, right); ok || crossSign(ux, uy, vx, vy) == 0 || dot(ux, uy, vx, vy).sign() < 0 {
+		// Not convex for the offset side, not straight on, not a spike.
+		if t := crossSign(ux, uy, vx, vy); t == 0 || (t > 0) == right || dot(ux, uy, vx, vy).sign() < 0 {
 			continue
 		}
 		j := (i + 1) % n
@@ -390,10 +402,11 @@ func rawCurve(q []ipt, d, step, tol float64, base int32, pr *pruner) ([]ipt, []b
 	// i. src[k] is the input edge the segment ending at out[k] comes from
 	// (for a join: the edge before its vertex); src[0] is for the closing
 	// segment.
-	est := 3*n + arcBudget(q, right, step) + 8
-	out := make([]ipt, 0, est)
-	src := make([]int32, 0, est)
-	arc := make([]int32, 0, est) // input vertex of the arc the segment ending here is a chord of, or −1
+	s0 := len(cb.pts)
+	all0, arc0 := cb.pts, cb.arc
+	out := all0[s0:s0]
+	src := cb.src[:0]
+	arc := arc0[s0:s0] // input vertex of the arc the segment ending here is a chord of, or −1
 	arcAt := int32(-1)
 	add := func(g ipt, e int) {
 		if len(out) == 0 || out[len(out)-1] != g {
@@ -465,15 +478,42 @@ func rawCurve(q []ipt, d, step, tol float64, base int32, pr *pruner) ([]ipt, []b
 		copy(arc, arc[1:])
 		arc[m-1] = a0
 	}
+	cb.pts = append(all0[:s0], out...)
+	cb.arc = append(arc0[:s0], arc...)
+	cb.src = src
 	if pr == nil {
-		return out, nil, arc
+		return
 	}
-	pruned := make([]bool, m)
 	for k := 0; k < m; k++ {
-		pruned[k] = pr.covered(out[k], out[(k+1)%m], src[(k+1)%m])
+		cb.pruned = append(cb.pruned, pr.covered(out[k], out[(k+1)%m], src[(k+1)%m]))
 	}
-	return out, pruned, arc
 }
+
+// curveBuf collects the raw curves of one offset in flat slices and holds
+// the per-ring scratch of rawCurve.
+type curveBuf struct {
+	pts        []ipt
+	arc        []int32
+	pruned     []bool
+	chainStart []int32
+	// scratch
+	nx, ny []float64
+	short  []bool
+	xs     []geom.Point
+	src    []int32
+}
+
+// grow makes the per-vertex scratch slices n long.
+func (cb *curveBuf) grow(n int) {
+	if cap(cb.nx) < n {
+		cb.nx = make([]float64, n)
+		cb.ny = make([]float64, n)
+		cb.short = make([]bool, n)
+		cb.xs = make([]geom.Point, n)
+	}
+	cb.nx, cb.ny, cb.short, cb.xs = cb.nx[:n], cb.ny[:n], cb.short[:n], cb.xs[:n]
+}
+
 
 // arcRadius returns the radius of the inner vertices of the arc polyline of
 // radius r with angle step θ. Outward (d > 0) they lie on the arc, so the

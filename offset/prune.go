@@ -271,48 +271,58 @@ func (p *pruner) covered(a, b ipt, e int32) bool {
 // that touch are reported as not simple (pruning is then skipped, which
 // costs time but not correctness).
 func simpleRings(rings [][]ipt) bool {
-	var a, b []ipt
-	var ring, idx, size []int32
-	for k, q := range rings {
-		for i := range q {
-			a = append(a, q[i])
-			b = append(b, q[(i+1)%len(q)])
-			ring = append(ring, int32(k))
-			idx = append(idx, int32(i))
-			size = append(size, int32(len(q)))
-		}
+	n := 0
+	for _, q := range rings {
+		n += len(q)
 	}
-	n := len(a)
 	if n == 0 {
 		return false
 	}
-	g, start, segs := bucketSegments(a, b)
+	// Edge s runs from pts[s] to pts[sb[s]]; ring[s] is its ring and
+	// rs[ring[s]] the ring's first edge.
+	pts := make([]ipt, 0, n)
+	sa := make([]int32, n)
+	sb := make([]int32, n)
+	ring := make([]int32, n)
+	rs := make([]int32, len(rings)+1)
+	for k, q := range rings {
+		b := int32(len(pts))
+		rs[k] = b
+		pts = append(pts, q...)
+		for i := range q {
+			s := b + int32(i)
+			sa[s], sb[s], ring[s] = s, s+1, int32(k)
+		}
+		sb[b+int32(len(q))-1] = b
+	}
+	rs[len(rings)] = int32(n)
+	_, start, segs, _, _ := bucketSegments(pts, sa, sb, 0)
 	for c := 0; c+1 < len(start); c++ {
 		list := segs[start[c]:start[c+1]]
 		for i, s := range list {
 			for _, t := range list[i+1:] {
-				if !boxesMeet(a[s], b[s], a[t], b[t]) {
+				ps, qs, pt, qt := pts[s], pts[sb[s]], pts[t], pts[sb[t]]
+				if !boxesMeet(ps, qs, pt, qt) {
 					continue
 				}
-				if ring[s] == ring[t] && (idx[t] == (idx[s]+1)%size[s] || idx[s] == (idx[t]+1)%size[s]) {
+				if sb[s] == t || sb[t] == s {
 					// Consecutive edges u→v→w: they must not fold back.
-					u, v, w := a[s], b[s], b[t]
-					if idx[s] == (idx[t]+1)%size[s] {
-						u, v, w = a[t], b[t], b[s]
+					u, v, w := ps, qs, qt
+					if sb[t] == s {
+						u, v, w = pt, qt, qs
 					}
-					if size[s] < 3 || (orient(u, v, w) == 0 && dot(v.x-u.x, v.y-u.y, w.x-v.x, w.y-v.y).sign() < 0) {
+					if rs[ring[s]+1]-rs[ring[s]] < 3 || (orient(u, v, w) == 0 && dot(v.x-u.x, v.y-u.y, w.x-v.x, w.y-v.y).sign() < 0) {
 						return false
 					}
 					continue
 				}
-				if segsMeet(a[s], b[s], a[t], b[t]) {
+				if segsMeet(ps, qs, pt, qt) {
 					return false
 				}
 			}
 		}
 	}
-	_ = g
-	ix := newRayIndex(a, b, nil, 2*len(rings))
+	ix := newRayIndex(pts, sa, sb, nil, 2*len(rings))
 	for _, q := range rings {
 		u, v := q[0], q[1]
 		m := ipt{u.x + v.x, u.y + v.y}

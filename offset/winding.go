@@ -1,89 +1,91 @@
 package offset
 
-import (
-	"math"
-	"slices"
-)
+import "math"
 
-// bucketSegments puts segments a[i]→b[i] into a uniform bucket grid sized
-// to their number and mean length, and returns the grid and its cells in
-// CSR form (the segments of cell c are segs[start[c]:start[c+1]]).
-func bucketSegments(a, b []ipt) (grid, []int32, []int32) {
+// bucketSegments puts segments pts[sa[i]]→pts[sb[i]] into a uniform bucket
+// grid sized to their number and mean length, and returns the grid and its
+// cells in CSR form (the segments of cell c are segs[start[c]:start[c+1]]).
+// The grid's margin m is kept.
+func bucketSegments(pts []ipt, sa, sb []int32, m float64) (g grid, start, segs, segCells, segCellStart []int32) {
 	minX, minY := int64(math.MaxInt64), int64(math.MaxInt64)
 	maxX, maxY := int64(math.MinInt64), int64(math.MinInt64)
 	var total float64
-	for i := range a {
-		p, q := a[i], b[i]
+	for i := range sa {
+		p, q := pts[sa[i]], pts[sb[i]]
 		minX, maxX = min(minX, p.x, q.x), max(maxX, p.x, q.x)
 		minY, maxY = min(minY, p.y, q.y), max(maxY, p.y, q.y)
 		total += math.Hypot(float64(q.x-p.x), float64(q.y-p.y))
 	}
-	n := float64(len(a))
+	n := float64(len(sa))
 	w, h := float64(maxX-minX)+1, float64(maxY-minY)+1
 	cs := max(total/n, math.Sqrt(w*h/n), 16)
-	g := grid{ox: float64(minX), oy: float64(minY), cs: cs}
+	g = grid{ox: float64(minX), oy: float64(minY), cs: cs, m: m}
 	g.nx = int(w/cs) + 1
 	g.ny = int(h/cs) + 1
 	ncell := g.nx * g.ny
-	count := make([]int32, ncell+1)
-	var buf []int32
-	flat := make([]int32, 0, 3*len(a))
-	fstart := make([]int32, len(a)+1)
-	for i := range a {
+	count := make([]int32, 2*(ncell+1))
+	flat := make([]int32, 0, 3*len(sa))
+	fstart := make([]int32, len(sa)+1)
+	for i := range sa {
 		fstart[i] = int32(len(flat))
-		buf = g.cells(a[i], b[i], buf[:0])
-		flat = append(flat, buf...)
-		for _, c := range buf {
+		k := len(flat)
+		flat = g.cells(pts[sa[i]], pts[sb[i]], flat)
+		for _, c := range flat[k:] {
 			count[c+1]++
 		}
 	}
-	fstart[len(a)] = int32(len(flat))
+	fstart[len(sa)] = int32(len(flat))
 	for c := 0; c < ncell; c++ {
 		count[c+1] += count[c]
 	}
-	start := slices.Clone(count)
-	segs := make([]int32, len(flat))
-	for i := range a {
+	start = count[:ncell+1]
+	fill := count[ncell+1:]
+	copy(fill, start)
+	segs = make([]int32, len(flat))
+	for i := range sa {
 		for _, c := range flat[fstart[i]:fstart[i+1]] {
-			segs[count[c]] = int32(i)
-			count[c]++
+			segs[fill[c]] = int32(i)
+			fill[c]++
 		}
 	}
-	return g, start, segs
+	return g, start, segs, flat, fstart
 }
 
 // rayIndex answers winding-number queries about a closed system of
-// directed segments a[i]→b[i] with multiplicities m[i] (1 when m is nil),
-// by counting crossings of a downward vertical ray. Segments are kept in
-// vertical strips by their x-range.
+// directed segments pts[sa[i]]→pts[sb[i]] with multiplicities m[i] (1 when
+// m is nil), by counting crossings of a downward vertical ray. Segments are
+// kept in vertical strips by their x-range.
 type rayIndex struct {
-	a, b  []ipt
-	m     []int32
-	x0, w int64
-	start []int32
-	ids   []int32
+	pts    []ipt
+	sa, sb []int32
+	m      []int32
+	x0, w  int64
+	start  []int32
+	ids    []int32
 }
 
 // queries is the expected number of queries; the strips are sized to it.
-func newRayIndex(a, b []ipt, m []int32, queries int) *rayIndex {
-	ix := &rayIndex{a: a, b: b, m: m}
-	if len(a) == 0 {
+func newRayIndex(pts []ipt, sa, sb []int32, m []int32, queries int) *rayIndex {
+	ix := &rayIndex{pts: pts, sa: sa, sb: sb, m: m}
+	if len(sa) == 0 {
 		return ix
 	}
 	minX, maxX := int64(math.MaxInt64), int64(math.MinInt64)
-	for i := range a {
-		minX, maxX = min(minX, a[i].x, b[i].x), max(maxX, a[i].x, b[i].x)
+	for i := range sa {
+		ax, bx := pts[sa[i]].x, pts[sb[i]].x
+		minX, maxX = min(minX, ax, bx), max(maxX, ax, bx)
 	}
-	ns := int64(min(max(len(a)/4, 1), 1<<14, 4*queries+1))
+	ns := int64(min(max(len(sa)/4, 1), 1<<14, 4*queries+1))
 	ix.x0 = minX
 	ix.w = max((maxX-minX)/ns+1, 1)
 	ns = (maxX-minX)/ix.w + 1
-	count := make([]int32, ns+1)
-	for i := range a {
-		if a[i].x == b[i].x {
+	count := make([]int32, 2*ns+2)
+	for i := range sa {
+		ax, bx := pts[sa[i]].x, pts[sb[i]].x
+		if ax == bx {
 			continue // never crosses a vertical ray
 		}
-		s0, s1 := (min(a[i].x, b[i].x)-minX)/ix.w, (max(a[i].x, b[i].x)-minX)/ix.w
+		s0, s1 := (min(ax, bx)-minX)/ix.w, (max(ax, bx)-minX)/ix.w
 		for s := s0; s <= s1; s++ {
 			count[s+1]++
 		}
@@ -91,16 +93,19 @@ func newRayIndex(a, b []ipt, m []int32, queries int) *rayIndex {
 	for s := int64(0); s < ns; s++ {
 		count[s+1] += count[s]
 	}
-	ix.start = slices.Clone(count)
-	ix.ids = make([]int32, count[ns])
-	for i := range a {
-		if a[i].x == b[i].x {
+	ix.start = count[:ns+1]
+	fill := count[ns+1:]
+	copy(fill, ix.start)
+	ix.ids = make([]int32, ix.start[ns])
+	for i := range sa {
+		ax, bx := pts[sa[i]].x, pts[sb[i]].x
+		if ax == bx {
 			continue
 		}
-		s0, s1 := (min(a[i].x, b[i].x)-minX)/ix.w, (max(a[i].x, b[i].x)-minX)/ix.w
+		s0, s1 := (min(ax, bx)-minX)/ix.w, (max(ax, bx)-minX)/ix.w
 		for s := s0; s <= s1; s++ {
-			ix.ids[count[s]] = int32(i)
-			count[s]++
+			ix.ids[fill[s]] = int32(i)
+			fill[s]++
 		}
 	}
 	return ix
@@ -124,7 +129,7 @@ func (ix *rayIndex) winding(q ipt, k int64, n ipt) (w int32, ok bool) {
 		return 0, true
 	}
 	for _, i := range ix.ids[ix.start[s]:ix.start[s+1]] {
-		p1, p2 := ix.a[i], ix.b[i]
+		p1, p2 := ix.pts[ix.sa[i]], ix.pts[ix.sb[i]]
 		sg := int32(1)
 		if ix.m != nil {
 			sg = ix.m[i]
