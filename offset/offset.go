@@ -514,7 +514,6 @@ func (cb *curveBuf) grow(n int) {
 	cb.nx, cb.ny, cb.short, cb.xs = cb.nx[:n], cb.ny[:n], cb.short[:n], cb.xs[:n]
 }
 
-
 // arcRadius returns the radius of the inner vertices of the arc polyline of
 // radius r with angle step θ. Outward (d > 0) they lie on the arc, so the
 // result stays within distance d of the input. Inward they lie at
