@@ -290,7 +290,10 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 				continue
 			}
 			q := g.pt(k)
-			if kk := gm.node(q); kk < 0 || !gm.in[kk] {
+			// The raster of the grown outline knows it to a node; a
+			// node it calls outside is checked exactly, so the tool
+			// that stands there clears the stock.
+			if kk := gm.node(q); (kk < 0 || !gm.in[kk]) && !grown.Contains(q) {
 				g.reached[k] = true
 			}
 		}
@@ -339,7 +342,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	if err != nil {
 		return err
 	}
-	bandedEmit(b, pieces, z, levelTop, clear, st, sum)
+	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
 }
 
@@ -367,12 +370,21 @@ func bandedHelix(b *builder, c geom.Point, hr, z0, z1 float64, st bandedSettings
 // bandedEmit turns a level's pieces into moves at z: runs between lifts
 // are joined into one chain and smoothed to the minimum path radius;
 // boundary passes keep the corners of the walls.
-func bandedEmit(b *builder, pieces []bandedPiece, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) {
+func bandedEmit(b *builder, pieces []bandedPiece, c geom.Shape, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) {
+	// Fillets stay in the tool-centre domain (which lies tol inside the
+	// walls, so a point on its outline is still clear of them).
+	bb := c.Bounds()
+	inside := func(q geom.Point) bool {
+		if q.X < bb.Min.X-1e-9 || q.X > bb.Max.X+1e-9 || q.Y < bb.Min.Y-1e-9 || q.Y > bb.Max.Y+1e-9 {
+			return false
+		}
+		return c.Contains(q) || c.DistanceToBoundary(q) < 1e-6
+	}
 	var pts []geom.Point
 	var kinds []geom.MoveKind
 	flush := func() {
 		if len(pts) > 1 {
-			for _, m := range smoothPath(pts, kinds, st.minR) {
+			for _, m := range smoothPath(pts, kinds, st.minR, inside) {
 				m.To.Z = z
 				m.Feed = st.feed
 				b.add(m)
@@ -415,7 +427,7 @@ func bandedEmit(b *builder, pieces []bandedPiece, z, levelTop, clear float64, st
 			for i := range kinds {
 				kinds[i] = geom.Feed
 			}
-			for _, m := range smoothPath(pc.pts, kinds, math.Min(st.minR, 0.3)) {
+			for _, m := range smoothPath(pc.pts, kinds, math.Min(st.minR, 0.3), inside) {
 				m.To.Z = z
 				m.Feed = st.feed
 				b.add(m)

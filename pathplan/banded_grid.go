@@ -23,12 +23,73 @@ type bandedGrid struct {
 	bfsPrev   []int32   // scratch of link searches
 	bfsGen    []uint32
 	gen       uint32
+	walls     *bandedWalls // the domain outline, for exact link checks
+}
+
+// bandedWalls is the outline of a tool-centre domain in buckets, so that a
+// link can be checked exactly against it: a node raster knows the domain
+// only to a node, and a straight leg between two inside nodes can cut a
+// convex corner of an island by up to half a node spacing.
+type bandedWalls struct {
+	x0, y0, cell float64
+	nx, ny       int
+	edges        [][2]geom.Point
+	bucket       [][]int32
+}
+
+// newBandedWalls buckets the edges of c in square cells of side cell.
+func newBandedWalls(c geom.Shape, cell float64) *bandedWalls {
+	b := c.Bounds()
+	w := &bandedWalls{x0: b.Min.X - cell, y0: b.Min.Y - cell, cell: cell}
+	w.nx = int(math.Ceil(b.Width()/cell)) + 3
+	w.ny = int(math.Ceil(b.Height()/cell)) + 3
+	w.bucket = make([][]int32, w.nx*w.ny)
+	for _, ring := range c.Rings() {
+		for i := range ring {
+			a, bb := ring[i], ring[(i+1)%len(ring)]
+			id := int32(len(w.edges))
+			w.edges = append(w.edges, [2]geom.Point{a, bb})
+			i0, j0, i1, j1 := w.span(a, bb)
+			for j := j0; j <= j1; j++ {
+				for ii := i0; ii <= i1; ii++ {
+					w.bucket[j*w.nx+ii] = append(w.bucket[j*w.nx+ii], id)
+				}
+			}
+		}
+	}
+	return w
+}
+
+// span returns the bucket range of the box of a and b, clamped.
+func (w *bandedWalls) span(a, b geom.Point) (i0, j0, i1, j1 int) {
+	cl := func(v, n int) int { return max(0, min(n-1, v)) }
+	i0 = cl(int(math.Floor((math.Min(a.X, b.X)-w.x0)/w.cell)), w.nx)
+	i1 = cl(int(math.Floor((math.Max(a.X, b.X)-w.x0)/w.cell)), w.nx)
+	j0 = cl(int(math.Floor((math.Min(a.Y, b.Y)-w.y0)/w.cell)), w.ny)
+	j1 = cl(int(math.Floor((math.Max(a.Y, b.Y)-w.y0)/w.cell)), w.ny)
+	return
+}
+
+// crosses reports whether the segment ab meets the outline.
+func (w *bandedWalls) crosses(a, b geom.Point) bool {
+	i0, j0, i1, j1 := w.span(a, b)
+	for j := j0; j <= j1; j++ {
+		for i := i0; i <= i1; i++ {
+			for _, id := range w.bucket[j*w.nx+i] {
+				e := w.edges[id]
+				if geom.SegmentsMeet(a, b, e[0], e[1]) {
+					return true
+				}
+			}
+		}
+	}
+	return false
 }
 
 // newBandedGrid rasterises the domain c with node spacing h.
 func newBandedGrid(c geom.Shape, h float64) *bandedGrid {
 	b := c.Bounds()
-	g := &bandedGrid{h: h, x0: b.Min.X - 2*h, y0: b.Min.Y - 2*h}
+	g := &bandedGrid{h: h, x0: b.Min.X - 2*h, y0: b.Min.Y - 2*h, walls: newBandedWalls(c, math.Max(1, 8*h))}
 	g.nx = int(math.Ceil(b.Width()/h)) + 5
 	g.ny = int(math.Ceil(b.Height()/h)) + 5
 	n := g.nx * g.ny

@@ -2,23 +2,81 @@ package pathplan
 
 import (
 	"context"
-	"os"
+	"fmt"
 	"path/filepath"
+	"sort"
 	"testing"
 
 	"github.com/chipband/chipband/geom"
-	"github.com/chipband/chipband/timing"
 )
 
-// TestBandedMustShow checks the figures issue 6 asks for on the demo job
-// and every job under testdata/jobs, by engage simulation (entries
-// excluded) and timing's R1 model. The thresholds are the issue's; they
-// are not all met yet, so the test runs only when CHIPBAND_MUSTSHOW=1 and
-// otherwise logs nothing (it takes tens of seconds).
+// bandedMustShowShort lists the issue 6 criteria that the banded strategy
+// does not meet yet, as job/feature/criterion. A listed criterion that
+// fails is skipped with its measured figure; one that passes passes; an
+// unlisted one that fails is an error. The thresholds themselves are the
+// issue's and are never relaxed here.
+var bandedMustShowShort = map[string]bool{
+	"closed_pocket.json/pocket/above":              true,
+	"closed_pocket.json/pocket/air":                true,
+	"closed_pocket.json/pocket/in-band":            true,
+	"closed_pocket.json/pocket/max":                true,
+	"closed_pocket.json/pocket/uncut":              true,
+	"deep_open.json/shoulder/above":                true,
+	"deep_open.json/shoulder/max":                  true,
+	"deep_open.json/through slot/above":            true,
+	"deep_open.json/through slot/air":              true,
+	"deep_open.json/through slot/beats-layered":    true,
+	"deep_open.json/through slot/cycle":            true,
+	"deep_open.json/through slot/in-band":          true,
+	"deep_open.json/through slot/max":              true,
+	"demo/boss pocket/above":                       true,
+	"demo/boss pocket/air":                         true,
+	"demo/boss pocket/cycle":                       true,
+	"demo/boss pocket/in-band":                     true,
+	"demo/boss pocket/max":                         true,
+	"demo/boss pocket/uncut":                       true,
+	"demo/comb pocket/above":                       true,
+	"demo/comb pocket/in-band":                     true,
+	"demo/comb pocket/max":                         true,
+	"demo/comb pocket/uncut":                       true,
+	"demo/deep step/max":                           true,
+	"open_slot.json/slot/air":                      true,
+	"open_slot.json/slot/in-band":                  true,
+	"open_slot.json/slot/max":                      true,
+	"outside_profile.json/profile/max":             true,
+	"outside_profile.json/profile/uncut":           true,
+	"pocket_islands.json/island pocket/above":      true,
+	"pocket_islands.json/island pocket/air":        true,
+	"pocket_islands.json/island pocket/cycle":      true,
+	"pocket_islands.json/island pocket/in-band":    true,
+	"pocket_islands.json/island pocket/max":        true,
+	"router_sign.json/recess/above":                true,
+	"router_sign.json/recess/air":                  true,
+	"router_sign.json/recess/max":                  true,
+	"shallow_channels.json/channel recess/above":   true,
+	"shallow_channels.json/channel recess/air":     true,
+	"shallow_channels.json/channel recess/cycle":   true,
+	"shallow_channels.json/channel recess/in-band": true,
+	"shallow_channels.json/channel recess/max":     true,
+	"shallow_channels.json/channel recess/uncut":   true,
+	"two_depths.json/counterbore/above":            true,
+	"two_depths.json/counterbore/air":              true,
+	"two_depths.json/counterbore/max":              true,
+	"two_depths.json/counterbore/uncut":            true,
+	"two_depths.json/deep pocket/above":            true,
+	"two_depths.json/deep pocket/air":              true,
+	"two_depths.json/deep pocket/cycle":            true,
+	"two_depths.json/deep pocket/in-band":          true,
+	"two_depths.json/deep pocket/max":              true,
+	"two_depths.json/deep pocket/uncut":            true,
+}
+
+// TestBandedMustShow checks the figures issue 6 asks for ("Must show") on
+// the demo job and every job under testdata/jobs, feature by feature and
+// criterion by criterion: engage simulation (entries excluded), the exact
+// wall gouge (bandedExactGouge) and timing's R1 model on the job's machine
+// (the demo router when the job has none).
 func TestBandedMustShow(t *testing.T) {
-	if os.Getenv("CHIPBAND_MUSTSHOW") == "" {
-		t.Skip("set CHIPBAND_MUSTSHOW=1 to run the issue 6 acceptance figures")
-	}
 	jobs := map[string]*Job{"demo": DemoJob()}
 	files, _ := filepath.Glob("../testdata/jobs/*.json")
 	for _, f := range files {
@@ -28,77 +86,104 @@ func TestBandedMustShow(t *testing.T) {
 		}
 		jobs[filepath.Base(f)] = j
 	}
+	names := make([]string, 0, len(jobs))
+	for n := range jobs {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		job := jobs[name]
+		t.Run(name, func(t *testing.T) {
+			t.Parallel()
+			bandedMustShowJob(t, name, job)
+		})
+	}
+}
+
+func bandedMustShowJob(t *testing.T, name string, job *Job) {
 	ctx := context.Background()
-	for name, job := range jobs {
-		m := timing.Machine{Name: "demo router"}
-		if job.Machine != nil {
-			m = *job.Machine
-		} else {
-			dj := DemoJob()
-			m = *dj.Machine
+	m := *DemoJob().Machine
+	if job.Machine != nil {
+		m = *job.Machine
+	}
+	plan, err := PlanBanded(ctx, job, BandedOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := BandedReport(ctx, plan, m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	layered := map[string]float64{}
+	if lp, err := PlanLayered(ctx, job, Options{}); err == nil {
+		layered, _ = bandedOpTimes(ctx, lp, m)
+	}
+	band := job.Cut.Band
+	if band[1] <= 0 {
+		band = defaultBand
+	}
+	keep, err := bandedKeep(job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range rep {
+		s := r.Engagement
+		fs := plan.Features[i]
+		f := job.Features[i]
+		start := plan.Path.Start
+		if fs.First > 0 {
+			start = plan.Path.Moves[fs.First-1].To
 		}
-		plan, err := PlanBanded(ctx, job, BandedOptions{})
-		if err != nil {
-			t.Errorf("%s: %v", name, err)
-			continue
+		// Exact distance of the tool-centre path to the walls.
+		gouge, _ := bandedExactGouge(&geom.Toolpath{Start: start, Moves: plan.Path.Moves[fs.First:fs.End]}, keep, job.Tool.Radius(), job.Stock.Top)
+		uncut := 0.0
+		for _, tg := range s.Targets {
+			uncut += tg.UncutArea
 		}
-		rep, err := BandedReport(ctx, plan, m)
-		if err != nil {
-			t.Errorf("%s: %v", name, err)
-			continue
-		}
-		var layered map[string]float64
-		if lp, err := PlanLayered(ctx, job, Options{}); err == nil {
-			layered, _ = bandedOpTimes(ctx, lp, m)
-		}
-		band := job.Cut.Band
-		if band[1] <= 0 {
-			band = defaultBand
-		}
-		keep, err := bandedKeep(job)
+		// Bay- or channel-dominated: the share of the tool-centre domain
+		// in channels (offset.Split with a disk of the tool radius, as
+		// compare reports it).
+		share, _, err := featureShape(ctx, job, f, DefaultTolerance)
 		if err != nil {
 			t.Fatal(err)
 		}
-		for i, r := range rep {
-			s := r.Engagement
-			fs := plan.Features[i]
-			start := plan.Path.Start
-			if fs.First > 0 {
-				start = plan.Path.Moves[fs.First-1].To
-			}
-			// The gouge is measured exactly (bandedExactGouge), not taken
-			// from engage: engage interpolates its keep distance field
-			// bilinearly, which reads a quarter cell (0.05 mm at 0.2 mm
-			// cells) too close at every convex corner of the tool-centre
-			// domain (TestBandedExactGougeCorner's path, engage reports
-			// 0.050 mm where the exact distance is r).
-			gouge, _ := bandedExactGouge(&geom.Toolpath{Start: start, Moves: plan.Path.Moves[fs.First:fs.End]}, keep, job.Tool.Radius(), job.Stock.Top)
-			area := plan.Features[i].Area
-			uncut := 0.0
-			for _, tg := range s.Targets {
-				uncut += tg.UncutArea
-			}
-			t.Logf("%s / %s: in-band %.3f above %.4f maxMA %.3f air %.3f gouge exact %.4f (engage %.4f) rapids-in-material %d uncut %.3f%% cycle %.1fs layered %.1fs bound %.1fs ratio %.2f",
-				name, r.Name, s.InBandFraction, s.AboveBandFraction, s.MaxEng, s.AirFraction, gouge, s.MaxGouge, len(s.RapidViolations), 100*uncut/area, r.CycleS, layered[r.Name], r.BoundS, r.Ratio)
-			// Issue 6, "Must show".
-			if s.InBandFraction < 0.9 {
-				t.Errorf("%s / %s: in-band share %.3f < 0.90", name, r.Name, s.InBandFraction)
-			}
-			if s.AboveBandFraction > 0.01 {
-				t.Errorf("%s / %s: share above 1.15·max %.4f > 0.01", name, r.Name, s.AboveBandFraction)
-			}
-			if s.MaxEng > band[1]+0.03 {
-				t.Errorf("%s / %s: 1 mm moving-average max %.3f > %.3f", name, r.Name, s.MaxEng, band[1]+0.03)
-			}
-			if gouge > 0.005 {
-				t.Errorf("%s / %s: wall gouge %.4f mm > 0.005", name, r.Name, gouge)
-			}
-			if len(s.RapidViolations) > 0 {
-				t.Errorf("%s / %s: %d rapids through material", name, r.Name, len(s.RapidViolations))
-			}
-			if uncut > 0.002*area {
-				t.Errorf("%s / %s: uncut %.2f mm² > 0.2 %% of %.0f mm²", name, r.Name, uncut, area)
-			}
+		channel := share >= 0.5
+		airMax, ratioMax := 0.20, 1.5
+		if channel {
+			airMax, ratioMax = 0.50, 3
+		}
+		t.Logf("%s / %s: in-band %.3f above %.4f maxMA %.3f air %.3f gouge %.4f rapids-in-material %d uncut %.3f%% cycle %.1fs layered %.1fs bound %.1fs ratio %.2f channel share %.2f",
+			name, r.Name, s.InBandFraction, s.AboveBandFraction, s.MaxEng, s.AirFraction, gouge, len(s.RapidViolations), 100*uncut/fs.Area, r.CycleS, layered[r.Name], r.BoundS, r.Ratio, share)
+		type crit struct {
+			name   string
+			ok     bool
+			figure string
+		}
+		crits := []crit{
+			{"in-band", s.InBandFraction >= 0.9, fmt.Sprintf("in-band share %.3f < 0.90", s.InBandFraction)},
+			{"above", s.AboveBandFraction <= 0.01, fmt.Sprintf("share above 1.15·max %.4f > 0.01", s.AboveBandFraction)},
+			{"max", s.MaxEng <= band[1]+0.03, fmt.Sprintf("1 mm moving-average max %.3f > %.3f", s.MaxEng, band[1]+0.03)},
+			{"air", s.AirFraction <= airMax, fmt.Sprintf("air %.3f > %.2f", s.AirFraction, airMax)},
+			{"gouge", gouge <= 0.005, fmt.Sprintf("wall gouge %.4f mm > 0.005", gouge)},
+			{"rapids", len(s.RapidViolations) == 0, fmt.Sprintf("%d rapids through material", len(s.RapidViolations))},
+			{"uncut", uncut <= 0.002*fs.Area, fmt.Sprintf("uncut %.3f %% > 0.2 %%", 100*uncut/fs.Area)},
+			{"cycle", r.Ratio <= ratioMax, fmt.Sprintf("cycle %.2f × the removal bound > %.1f", r.Ratio, ratioMax)},
+		}
+		if f.Depth >= 2*job.Tool.Diameter && fs.Open {
+			lt := layered[r.Name]
+			crits = append(crits, crit{"beats-layered", lt > 0 && r.CycleS < lt, fmt.Sprintf("banded %.1f s, layered %.1f s", r.CycleS, lt)})
+		}
+		for _, c := range crits {
+			key := name + "/" + r.Name + "/" + c.name
+			t.Run(r.Name+"/"+c.name, func(t *testing.T) {
+				if c.ok {
+					return
+				}
+				if bandedMustShowShort[key] {
+					t.Skipf("issue 6 not met yet: %s", c.figure)
+				}
+				t.Errorf("%s: %s", key, c.figure)
+			})
 		}
 	}
 }

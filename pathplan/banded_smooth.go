@@ -18,8 +18,12 @@ type smoothFillet struct {
 // by a fillet of radius minR tangent to both legs (or the largest radius
 // the legs allow, never below minR when the legs are long enough). Gentle
 // vertices stay, since a chain of them follows a curve of radius at least
-// leg/turn. It returns, per output element, either a line end or an arc.
-func smoothPath(pts []geom.Point, kinds []geom.MoveKind, minR float64) []geom.Move {
+// leg/turn. A fillet lies on the inside of its corner, off the legs, so
+// when inside is set every fillet is checked against it (the tool-centre
+// domain) and a corner whose fillet would leave it stays sharp: a fillet
+// into an island or wall corner gouges it. It returns, per output element,
+// either a line end or an arc.
+func smoothPath(pts []geom.Point, kinds []geom.MoveKind, minR float64, inside func(geom.Point) bool) []geom.Move {
 	const maxTurn = 12 * math.Pi / 180
 	n := len(pts)
 	if n < 2 {
@@ -84,10 +88,30 @@ func smoothPath(pts []geom.Point, kinds []geom.MoveKind, minR float64) []geom.Mo
 			nrm = nrm.Scale(-1)
 		}
 		ctr := p0.Add(nrm.Scale(minR))
+		if inside != nil && !smoothArcInside(p0, p1, ctr, inside) {
+			line(i, b)
+			continue
+		}
 		line(i, p0)
 		out = append(out, geom.Move{Kind: kinds[i+1], To: geom.Point3{X: p1.X, Y: p1.Y}, Arc: true, Center: ctr, CW: turn < 0})
 	}
 	return out
+}
+
+// smoothArcInside reports whether the short arc from p0 to p1 about ctr
+// stays inside, checked at its ends and nine points between.
+func smoothArcInside(p0, p1, ctr geom.Point, inside func(geom.Point) bool) bool {
+	a0 := math.Atan2(p0.Y-ctr.Y, p0.X-ctr.X)
+	a1 := math.Atan2(p1.Y-ctr.Y, p1.X-ctr.X)
+	da := math.Remainder(a1-a0, 2*math.Pi)
+	rad := p0.Dist(ctr)
+	for k := 0; k <= 10; k++ {
+		a := a0 + da*float64(k)/10
+		if !inside(geom.Pt(ctr.X+rad*math.Cos(a), ctr.Y+rad*math.Sin(a))) {
+			return false
+		}
+	}
+	return true
 }
 
 // smoothCount returns how many vertices of pts turn more sharply than a

@@ -67,6 +67,9 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 	var out []bandedPiece
 	prev := start
 	lastClosed := false
+	// Open passes cut in this and the previous round of fronts, for the
+	// turns at walls.
+	var recent, older [][]geom.Point
 	for iter := 0; iter < 100000; iter++ {
 		if err := ctx.Err(); err != nil {
 			return nil, pos, err
@@ -102,6 +105,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 			break
 		}
+		older, recent = recent, nil
 		// Sequence the fronts: nearest first, climb direction fixed.
 		done := make([]bool, len(fronts))
 		for range fronts {
@@ -141,16 +145,33 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 				pts = spiralLeadIn(pts, prev, math.Min(p.r, 0.3*polyLen(pts)), 2*p.maxStep+2*p.h)
 				bd = pts[0].Dist(pos)
 			}
-			if lastClosed && f.closed && bd <= 2*p.maxStep+2*p.h {
+			var turn []geom.Point
+			if !f.closed && !(lastClosed && bd <= 2*p.maxStep+2*p.h) {
+				turn = spiralTurn(recent, older, pts, p)
+			}
+			switch {
+			case turn != nil:
+				if d := pos.Dist(turn[0]); d > 1e-6 {
+					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) {
+						out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{pos, turn[0]}})
+					} else {
+						out = append(out, spiralLink(g, pos, turn[0], p)...)
+					}
+				}
+				out = append(out, bandedPiece{kind: pieceCut, pts: turn})
+			case lastClosed && f.closed && bd <= 2*p.maxStep+2*p.h:
 				// Spiral transition: bend the start of the new loop onto
 				// the end of the last one so the machine does not stop.
 				pts = spiralBlend(pts, pos, math.Min(6*p.r, 0.3*polyLen(pts)))
-			} else if bd > 1e-6 {
+			case bd > 1e-6:
 				out = append(out, spiralLink(g, pos, pts[0], p)...)
 			}
 			out = append(out, bandedPiece{kind: pieceCut, pts: pts})
 			pos = pts[len(pts)-1]
 			lastClosed = f.closed
+			if !f.closed {
+				recent = append(recent, pts)
+			}
 		}
 		g.sweepReached(segs)
 		prev = fronts
@@ -277,6 +298,60 @@ func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geo
 		return append([]geom.Point{last}, pts...)
 	}
 	return append(pts, last)
+}
+
+// spiralTurn returns the ramp onto the open pass next from a pass cut
+// beside it (one of cut, else of older), or nil when none runs beside its
+// start. Stepping straight from one pass end to the next start meets the
+// new slab head-on (the engaged arc is the chord of the step,
+// φ = 2·arccos(1 − ae/r), elementary geometry); instead the tool comes
+// back along the neighbour pass through cut material to a length l short of
+// the wall, runs forward again while drifting over onto next (the
+// engagement grows from nothing over l), and at the start of next reverses
+// into the pass, which then takes the wedge the drift left with an
+// engagement that grows from nothing over l as well. The ramp starts on
+// the neighbour pass and ends at next's start.
+func spiralTurn(cut, older [][]geom.Point, next []geom.Point, p spiralParams) []geom.Point {
+	step := p.r * (1 - math.Cos(p.phi))
+	l := math.Max(4*step, 1.5)
+	if polyLen(next) < 3*l {
+		return nil
+	}
+	reach := p.maxStep + 2*p.h
+	var seg []spiralFront
+	for _, set := range [][][]geom.Point{cut, older} {
+		bd := math.Inf(1)
+		var best []geom.Point
+		for _, c := range set {
+			if _, d := nearestOnFronts([]spiralFront{{pts: c}}, next[0]); d < bd {
+				bd, best = d, c
+			}
+		}
+		if best != nil && bd <= reach {
+			seg = []spiralFront{{pts: best}}
+			break
+		}
+	}
+	if seg == nil {
+		return nil
+	}
+	cum := make([]float64, len(next))
+	for i := 1; i < len(next); i++ {
+		cum[i] = cum[i-1] + next[i].Dist(next[i-1])
+	}
+	total := cum[len(next)-1]
+	n := max(4, int(math.Ceil(l/(0.5*p.h))))
+	ramp := make([]geom.Point, 0, n+1)
+	for i := n; i >= 0; i-- {
+		s := l * float64(i) / float64(n)
+		q := polyAt(next, cum, s, false, total)
+		near, d := nearestOnFronts(seg, q)
+		if d > reach {
+			return nil
+		}
+		ramp = append(ramp, near.Lerp(q, 1-s/l))
+	}
+	return ramp
 }
 
 // spiralLeadIn bends the first length l of an open pass onto the nearest
@@ -413,6 +488,9 @@ func abs(i int) int {
 // linkClear reports whether the segment ab runs through swept nodes, ends
 // excepted within slack.
 func linkClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
+	if g.walls != nil && g.walls.crosses(a, b) {
+		return false
+	}
 	l := a.Dist(b)
 	n := int(math.Ceil(l/(0.5*g.h))) + 1
 	for i := 0; i <= n; i++ {

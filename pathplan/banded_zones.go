@@ -60,7 +60,7 @@ func bandedSplit(ctx context.Context, comp bandedComp, st bandedSettings, tol fl
 // bandedMask returns a grid over the same raster as g whose domain is the
 // nodes of g inside reg, with the swept nodes of g carried over.
 func bandedMask(g *bandedGrid, reg geom.Region) *bandedGrid {
-	m := &bandedGrid{x0: g.x0, y0: g.y0, h: g.h, nx: g.nx, ny: g.ny}
+	m := &bandedGrid{x0: g.x0, y0: g.y0, h: g.h, nx: g.nx, ny: g.ny, walls: g.walls}
 	n := len(g.in)
 	m.in = make([]bool, n)
 	m.reached = make([]bool, n)
@@ -98,7 +98,8 @@ func bandedAir(g *bandedGrid, grown geom.Shape, p spiralParams) ([]spiralFront, 
 		if !g.in[k] {
 			continue
 		}
-		if kk := gm.node(g.pt(k)); kk < 0 || !gm.in[kk] {
+		// Exact check of what the raster calls outside (see bandedLevel).
+		if kk := gm.node(g.pt(k)); (kk < 0 || !gm.in[kk]) && !grown.Contains(g.pt(k)) {
 			g.reached[k] = true
 			any = true
 		}
@@ -310,7 +311,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 		return err
 	}
 	pieces = append(pieces, spiralBoundary(g, comp.c, &pos, p)...)
-	bandedEmit(b, pieces, z, levelTop, clear, st, sum)
+	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
 }
 
