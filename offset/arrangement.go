@@ -233,20 +233,9 @@ func (a *arrangement) buildGrid() {
 	a.g, a.cellStart, a.cellSegs, a.segCells, a.segCellStart = bucketSegments(a.pts, a.sa, a.sb, a.g.m)
 }
 
-type hotItem struct {
-	p   ipt
-	src int32
-}
-
 // snapRound finds the hot pixels and routes every raw segment through them.
 func (a *arrangement) snapRound() error {
 	ns := len(a.sa)
-	type box struct{ x0, y0, x1, y1 int64 }
-	boxes := make([]box, ns)
-	for i := range a.sa {
-		p, q := a.pts[a.sa[i]], a.pts[a.sb[i]]
-		boxes[i] = box{min(p.x, q.x), min(p.y, q.y), max(p.x, q.x), max(p.y, q.y)}
-	}
 	// Hot pixels of the raw vertices that kept segments use.
 	used := make([]bool, len(a.pts))
 	nu := 0
@@ -258,24 +247,19 @@ func (a *arrangement) snapRound() error {
 			}
 		}
 	}
-	items := make([]hotItem, 0, nu+nu/8+16)
-	for i, p := range a.pts {
-		if used[i] {
-			items = append(items, hotItem{p, int32(i)})
-		}
-	}
+	// Hot pixels of the crossings.
+	var items []ipt
 	ncell := a.g.nx * a.g.ny
 	for c := 0; c < ncell; c++ {
 		list := a.cellSegs[a.cellStart[c]:a.cellStart[c+1]]
 		for i, s := range list {
-			bs := boxes[s]
 			p1, p2 := a.pts[a.sa[s]], a.pts[a.sb[s]]
+			x0, y0, x1, y1 := min(p1.x, p2.x), min(p1.y, p2.y), max(p1.x, p2.x), max(p1.y, p2.y)
 			for _, t := range list[i+1:] {
-				bt := boxes[t]
-				if bt.x0 > bs.x1 || bt.x1 < bs.x0 || bt.y0 > bs.y1 || bt.y1 < bs.y0 {
+				q1, q2 := a.pts[a.sa[t]], a.pts[a.sb[t]]
+				if min(q1.x, q2.x) > x1 || max(q1.x, q2.x) < x0 || min(q1.y, q2.y) > y1 || max(q1.y, q2.y) < y0 {
 					continue
 				}
-				q1, q2 := a.pts[a.sa[t]], a.pts[a.sb[t]]
 				if !properCross(p1, p2, q1, q2) {
 					continue
 				}
@@ -290,49 +274,55 @@ func (a *arrangement) snapRound() error {
 				}
 				hp := ipt{int64(math.Round(x)), int64(math.Round(y))}
 				if segHitsPixel(p1, p2, hp) && segHitsPixel(q1, q2, hp) {
-					items = append(items, hotItem{hp, -1})
+					items = append(items, hp)
 				} else {
 					// Rounding of the crossing was not exact enough to be
 					// sure; the true crossing lies in one of these pixels.
 					fx, fy := int64(math.Floor(x)), int64(math.Floor(y))
-					items = append(items, hotItem{ipt{fx, fy}, -1}, hotItem{ipt{fx + 1, fy}, -1},
-						hotItem{ipt{fx, fy + 1}, -1}, hotItem{ipt{fx + 1, fy + 1}, -1})
+					items = append(items, ipt{fx, fy}, ipt{fx + 1, fy}, ipt{fx, fy + 1}, ipt{fx + 1, fy + 1})
 				}
-				if len(items) > a.budget {
+				if nu+len(items) > a.budget {
 					return fmt.Errorf("%w: more than %d vertices and crossings", ErrTooComplex, a.budget)
 				}
 			}
 		}
 	}
-	// Distinct hot pixels, numbered in order of first appearance, through
-	// an open-addressing hash table.
+	// Distinct hot pixels, numbered in order of first appearance (raw
+	// vertices, then crossings), through an open-addressing hash table.
+	nitems := nu + len(items)
 	a.rawHot = make([]int32, len(a.pts))
-	a.hot = make([]ipt, 0, len(items))
+	a.hot = make([]ipt, 0, nitems)
 	size := 1
-	for size < 2*len(items) {
+	for size < 2*nitems {
 		size <<= 1
 	}
 	table := make([]int32, size)
 	for i := range table {
 		table[i] = -1
 	}
-	for _, it := range items {
-		hsh := (uint64(it.p.x)*0x9E3779B97F4A7C15 ^ uint64(it.p.y)*0xC2B2AE3D27D4EB4F) >> 17
+	lookup := func(p ipt) int32 {
+		hsh := (uint64(p.x)*0x9E3779B97F4A7C15 ^ uint64(p.y)*0xC2B2AE3D27D4EB4F) >> 17
 		j := int(hsh) & (size - 1)
-		for table[j] >= 0 && a.hot[table[j]] != it.p {
+		for table[j] >= 0 && a.hot[table[j]] != p {
 			j = (j + 1) & (size - 1)
 		}
 		if table[j] < 0 {
 			table[j] = int32(len(a.hot))
-			a.hot = append(a.hot, it.p)
+			a.hot = append(a.hot, p)
 		}
-		if it.src >= 0 {
-			a.rawHot[it.src] = table[j]
+		return table[j]
+	}
+	for i, p := range a.pts {
+		if used[i] {
+			a.rawHot[i] = lookup(p)
 		}
 	}
-	// Hot pixels per cell.
-	count := make([]int32, ncell+1)
-	hcell := make([]int32, len(a.hot))
+	for _, p := range items {
+		lookup(p)
+	}
+	// Hot pixels per cell (CSR; table is reused for the cell of each).
+	count := make([]int32, 2*(ncell+1))
+	hcell := table[:len(a.hot)]
 	for i, p := range a.hot {
 		c := int32(a.g.cellOf(p))
 		hcell[i] = c
@@ -341,11 +331,13 @@ func (a *arrangement) snapRound() error {
 	for c := 0; c < ncell; c++ {
 		count[c+1] += count[c]
 	}
-	a.hotStart = slices.Clone(count)
+	a.hotStart = count[:ncell+1]
+	fill := count[ncell+1:]
+	copy(fill, a.hotStart)
 	a.hotIDs = make([]int32, len(a.hot))
 	for i, c := range hcell {
-		a.hotIDs[count[c]] = int32(i)
-		count[c]++
+		a.hotIDs[fill[c]] = int32(i)
+		fill[c]++
 	}
 	// Route every segment through the hot pixels it meets.
 	type cand struct {

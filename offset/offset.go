@@ -255,19 +255,23 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 	}
 	// All raw curves go into one flat buffer: chain k is
 	// pts[chainStart[k]:chainStart[k+1]].
-	est := 0
+	est, estMax, base0 := 0, 0, 0
 	for k, q := range rings {
-		est += 3*len(q) + arcN[k] + 8
+		e := 3*len(q) + arcN[k] + 8
+		est += e
+		estMax = max(estMax, e)
+		base0 += len(q)
 	}
 	cb := &curveBuf{
 		pts:        make([]ipt, 0, est),
 		arc:        make([]int32, 0, est),
 		chainStart: make([]int32, 1, len(rings)+1),
+		src:        make([]int32, 0, estMax),
 	}
 	if pr != nil {
 		cb.pruned = make([]bool, 0, est)
 	}
-	var centres []ipt
+	centres := make([]ipt, 0, base0)
 	base := int32(0)
 	for _, q := range rings {
 		rawCurve(cb, q, d, step, tol, base, pr)
@@ -654,9 +658,9 @@ func windingDoubled(r []ipt, m ipt) int {
 }
 
 // dropCollinear removes vertices lying on the straight line through their
-// neighbours.
+// neighbours, in place.
 func dropCollinear(r []ipt) []ipt {
-	out := make([]ipt, 0, len(r))
+	out := r[:0]
 	for _, p := range r {
 		for len(out) >= 2 && orient(out[len(out)-2], out[len(out)-1], p) == 0 {
 			out = out[:len(out)-1]
@@ -689,7 +693,8 @@ func areaMM2(r []ipt) float64 {
 	return s.float() / 2 / (gridScale * gridScale)
 }
 
-// rotateMin rotates r to start at its smallest vertex (x, then y).
+// rotateMin rotates r, in place, to start at its smallest vertex (x, then
+// y).
 func rotateMin(r []ipt) []ipt {
 	k := 0
 	for i, p := range r {
@@ -697,8 +702,10 @@ func rotateMin(r []ipt) []ipt {
 			k = i
 		}
 	}
-	if k == 0 {
-		return r
+	if k > 0 {
+		slices.Reverse(r[:k])
+		slices.Reverse(r[k:])
+		slices.Reverse(r)
 	}
-	return append(slices.Clone(r[k:]), r[:k]...)
+	return r
 }
