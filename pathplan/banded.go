@@ -427,7 +427,7 @@ func bandedEmit(b *builder, pieces []bandedPiece, c geom.Shape, z, levelTop, cle
 			for i := range kinds {
 				kinds[i] = geom.Feed
 			}
-			for _, m := range smoothPath(pc.pts, kinds, math.Min(st.minR, 0.3), inside) {
+			for _, m := range smoothPath(pc.pts, kinds, math.Min(st.minR, 0.1), inside) {
 				m.To.Z = z
 				m.Feed = st.feed
 				b.add(m)

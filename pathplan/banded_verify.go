@@ -6,6 +6,7 @@ import (
 
 	"github.com/chipband/chipband/engage"
 	"github.com/chipband/chipband/geom"
+	"github.com/chipband/chipband/offset"
 	"github.com/chipband/chipband/timing"
 )
 
@@ -53,11 +54,15 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 		if err != nil {
 			return nil, err
 		}
+		targets := []engage.Target{{Name: f.Name, Region: tgt, Floor: job.Stock.Top - f.Depth}}
+		if reach, err := bandedReachable(job, f, tgt); err == nil {
+			targets = append(targets, engage.Target{Name: f.Name + " (reachable)", Region: reach, Floor: job.Stock.Top - f.Depth})
+		}
 		res, err := engage.Simulate(ctx, m, tool, tp, engage.SimOptions{
 			Band:        band,
 			SpindleRPM:  job.Cut.SpindleRPM,
 			Keep:        keep,
-			Targets:     []engage.Target{{Name: f.Name, Region: tgt, Floor: job.Stock.Top - f.Depth}},
+			Targets:     targets,
 			SummaryOnly: true,
 		})
 		if err != nil {
@@ -66,6 +71,30 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 		out = append(out, res.Summary)
 	}
 	return out, nil
+}
+
+// bandedReachable returns the part of target tgt of feature f that the
+// tool can reach at all: its tool-centre domain (free space eroded by the
+// radius and the allowance) dilated by the radius again, which leaves out
+// the inside corners a round tool cannot reach and the allowance.
+func bandedReachable(job *Job, f Feature, tgt geom.Shape) (geom.Shape, error) {
+	st, err := bandedSetup(job, BandedOptions{})
+	if err != nil {
+		return nil, err
+	}
+	comps, _, err := bandedDomain(job, f, st, DefaultTolerance)
+	if err != nil {
+		return nil, err
+	}
+	var c geom.Shape
+	for _, comp := range comps {
+		c = append(c, comp.c...)
+	}
+	grown, err := offset.Offset(c, st.r, DefaultTolerance)
+	if err != nil {
+		return nil, err
+	}
+	return geom.Intersection(grown, tgt)
 }
 
 // BandedFeatureReport is the report of one feature of a banded plan.
