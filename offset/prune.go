@@ -205,16 +205,24 @@ func (p *pruner) buildField(minX, minY, maxX, maxY float64) {
 // decreases and returns the edge reached and its squared distance.
 func (p *pruner) descend(x, y float64, e int32) (int32, float64) {
 	best := p.d2(x, y, e)
+	// Once a step along the ring has decreased the distance, the way back
+	// cannot decrease it again, so the walk keeps its direction.
+	step := p.next
+	f := step[e]
+	v := p.d2(x, y, f)
+	if v >= best {
+		step = p.prev
+		f = step[e]
+		if v = p.d2(x, y, f); v >= best {
+			return e, best
+		}
+	}
 	for k := 0; k < 512; k++ {
-		if f := p.next[e]; p.d2(x, y, f) < best {
-			e, best = f, p.d2(x, y, f)
-			continue
+		e, best = f, v
+		f = step[e]
+		if v = p.d2(x, y, f); v >= best {
+			break
 		}
-		if f := p.prev[e]; p.d2(x, y, f) < best {
-			e, best = f, p.d2(x, y, f)
-			continue
-		}
-		break
 	}
 	return e, best
 }
