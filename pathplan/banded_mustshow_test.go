@@ -20,9 +20,7 @@ import (
 var bandedMustShowShort = map[string]bool{
 	"closed_pocket.json/pocket/above":              true,
 	"closed_pocket.json/pocket/air":                true,
-	"closed_pocket.json/pocket/in-band":            true,
 	"closed_pocket.json/pocket/max":                true,
-	"deep_open.json/shoulder/above":                true,
 	"deep_open.json/shoulder/max":                  true,
 	"deep_open.json/through slot/above":            true,
 	"deep_open.json/through slot/air":              true,

@@ -147,12 +147,12 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 			var turn []geom.Point
 			if !f.closed && !(lastClosed && bd <= 2*p.maxStep+2*p.h) {
-				turn = spiralTurn(recent, older, pts, p)
+				turn = spiralTurn(g, recent, older, pts, p)
 			}
 			switch {
 			case turn != nil:
 				if d := pos.Dist(turn[0]); d > 1e-6 {
-					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) {
+					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) && (g.walls == nil || !g.walls.crosses(pos, turn[0])) {
 						out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{pos, turn[0]}})
 					} else {
 						out = append(out, spiralLink(g, pos, turn[0], p)...)
@@ -311,9 +311,9 @@ func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geo
 // into the pass, which then takes the wedge the drift left with an
 // engagement that grows from nothing over l as well. The ramp starts on
 // the neighbour pass and ends at next's start.
-func spiralTurn(cut, older [][]geom.Point, next []geom.Point, p spiralParams) []geom.Point {
+func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p spiralParams) []geom.Point {
 	step := p.r * (1 - math.Cos(p.phi))
-	l := math.Max(4*step, 1.5)
+	l := math.Max(2*step, 0.8)
 	if polyLen(next) < 3*l {
 		return nil
 	}
@@ -350,6 +350,13 @@ func spiralTurn(cut, older [][]geom.Point, next []geom.Point, p spiralParams) []
 			return nil
 		}
 		ramp = append(ramp, near.Lerp(q, 1-s/l))
+	}
+	// A blend of two passes inside the domain may still leave it where
+	// the domain is not convex.
+	for i := 1; i < len(ramp); i++ {
+		if g.walls != nil && g.walls.crosses(ramp[i-1], ramp[i]) {
+			return nil
+		}
 	}
 	return ramp
 }
