@@ -94,6 +94,7 @@ func (g *grid) cells(a, b ipt, buf []int32) []int32 {
 // arrangement holds the working data of one winding-number extraction.
 type arrangement struct {
 	budget int
+	sc     *ints // scratch slices
 
 	pts          []ipt   // raw vertices
 	pa, pb       []int32 // pruned raw segments pa[i] → pb[i]
@@ -145,8 +146,10 @@ func (a *arrangement) dst(h int32) int32 { return a.org(h ^ 1) }
 // index into centres of the arc's centre, or −1), for the exact corner
 // pass (corners.go) with arc radius R and chord tolerance tol, both in grid
 // units.
-func windingBoundary(pts []ipt, chainStart []int32, pruned []bool, arcs []int32, centres []ipt, R, tol float64, budget int) ([][]ipt, error) {
-	a := &arrangement{budget: budget}
+//
+// sc, when not nil, lends and takes back scratch slices.
+func windingBoundary(pts []ipt, chainStart []int32, pruned []bool, arcs []int32, centres []ipt, R, tol float64, budget int, sc *ints) ([][]ipt, error) {
+	a := &arrangement{budget: budget, sc: sc}
 	total := len(pts)
 	nchain := len(chainStart) - 1
 	np := 0
@@ -156,8 +159,8 @@ func windingBoundary(pts []ipt, chainStart []int32, pruned []bool, arcs []int32,
 		}
 	}
 	a.pts = pts
-	a.sa = make([]int32, 0, total-np)
-	a.sb = make([]int32, 0, total-np)
+	a.sa = sc.get(total - np)[:0]
+	a.sb = sc.get(total - np)[:0]
 	if np > 0 {
 		a.pa = make([]int32, 0, np)
 		a.pb = make([]int32, 0, np)
@@ -230,7 +233,7 @@ func windingBoundary(pts []ipt, chainStart []int32, pruned []bool, arcs []int32,
 }
 
 func (a *arrangement) buildGrid() {
-	a.g, a.cellStart, a.cellSegs, a.segCells, a.segCellStart = bucketSegments(a.pts, a.sa, a.sb, a.g.m)
+	a.g, a.cellStart, a.cellSegs, a.segCells, a.segCellStart = bucketSegments(a.pts, a.sa, a.sb, a.g.m, a.sc)
 }
 
 // snapRound finds the hot pixels and routes every raw segment through them.
@@ -290,13 +293,13 @@ func (a *arrangement) snapRound() error {
 	// Distinct hot pixels, numbered in order of first appearance (raw
 	// vertices, then crossings), through an open-addressing hash table.
 	nitems := nu + len(items)
-	a.rawHot = make([]int32, len(a.pts))
+	a.rawHot = a.sc.get(len(a.pts))
 	a.hot = make([]ipt, 0, nitems)
 	size := 1
 	for size < 2*nitems {
 		size <<= 1
 	}
-	table := make([]int32, size)
+	table := a.sc.get(size)
 	for i := range table {
 		table[i] = -1
 	}
@@ -321,7 +324,7 @@ func (a *arrangement) snapRound() error {
 		lookup(p)
 	}
 	// Hot pixels per cell (CSR; table is reused for the cell of each).
-	count := make([]int32, 2*(ncell+1))
+	count := a.sc.zeroed(2 * (ncell + 1))
 	hcell := table[:len(a.hot)]
 	for i, p := range a.hot {
 		c := int32(a.g.cellOf(p))
@@ -334,7 +337,7 @@ func (a *arrangement) snapRound() error {
 	a.hotStart = count[:ncell+1]
 	fill := count[ncell+1:]
 	copy(fill, a.hotStart)
-	a.hotIDs = make([]int32, len(a.hot))
+	a.hotIDs = a.sc.get(len(a.hot))
 	for i, c := range hcell {
 		a.hotIDs[fill[c]] = int32(i)
 		fill[c]++
@@ -392,6 +395,8 @@ func (a *arrangement) snapRound() error {
 		}
 	}
 	a.routeStart[ns] = int32(len(a.route))
+	a.sc.put(table, count, a.hotIDs, a.rawHot)
+	a.hotStart, a.hotIDs, a.rawHot = nil, nil, nil
 	return nil
 }
 
@@ -436,7 +441,7 @@ func (a *arrangement) buildGraph() {
 	}
 	nv := len(a.hot)
 	ne := len(a.eu)
-	a.adjStart = make([]int32, nv+1)
+	a.adjStart = a.sc.zeroed(nv + 1)
 	for e := 0; e < ne; e++ {
 		a.adjStart[a.eu[e]+1]++
 		a.adjStart[a.ev[e]+1]++
@@ -444,8 +449,9 @@ func (a *arrangement) buildGraph() {
 	for v := 0; v < nv; v++ {
 		a.adjStart[v+1] += a.adjStart[v]
 	}
-	fill := slices.Clone(a.adjStart[:nv])
-	a.adj = make([]int32, 2*ne)
+	fill := a.sc.get(nv)
+	copy(fill, a.adjStart[:nv])
+	a.adj = a.sc.get(2 * ne)
 	for e := 0; e < ne; e++ {
 		a.adj[fill[a.eu[e]]] = int32(2 * e)
 		fill[a.eu[e]]++
@@ -463,7 +469,8 @@ func (a *arrangement) buildGraph() {
 			return angleCmp(p.x-o.x, p.y-o.y, q.x-o.x, q.y-o.y)
 		})
 	}
-	a.pos = make([]int32, 2*ne)
+	a.sc.put(fill)
+	a.pos = a.sc.get(2 * ne)
 	for i, h := range a.adj {
 		a.pos[h] = int32(i)
 	}
@@ -489,7 +496,7 @@ func half(x, y int64) int {
 // left and numbers the faces.
 func (a *arrangement) traceFaces() {
 	nh := len(a.adj)
-	a.nxt = make([]int32, nh)
+	a.nxt = a.sc.get(nh)
 	for h := 0; h < nh; h++ {
 		v := a.dst(int32(h))
 		i := a.pos[h^1] - 1
@@ -498,7 +505,7 @@ func (a *arrangement) traceFaces() {
 		}
 		a.nxt[h] = a.adj[i]
 	}
-	a.face = make([]int32, nh)
+	a.face = a.sc.get(nh)
 	for h := range a.face {
 		a.face[h] = -1
 	}

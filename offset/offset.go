@@ -249,8 +249,9 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 			}
 		}
 	}
+	sc := &ints{}
 	var pr *pruner
-	if simpleRings(rings) {
+	if simpleRings(rings, sc) {
 		pr = newPruner(rings, d, tol)
 	}
 	// All raw curves go into one flat buffer: chain k is
@@ -279,7 +280,7 @@ func offset(s geom.Shape, d, tol float64) (geom.Shape, error) {
 		centres = append(centres, q...)
 		base += int32(len(q))
 	}
-	bnd, err := windingBoundary(cb.pts, cb.chainStart, cb.pruned, cb.arc, centres, r*gridScale, tol*gridScale, MaxVertices)
+	bnd, err := windingBoundary(cb.pts, cb.chainStart, cb.pruned, cb.arc, centres, r*gridScale, tol*gridScale, MaxVertices, sc)
 	if err != nil {
 		return nil, fmt.Errorf("offset: %w", err)
 	}

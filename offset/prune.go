@@ -278,7 +278,7 @@ func (p *pruner) covered(a, b ipt, e int32) bool {
 // has winding number 1 just to its left and 0 just to its right. Rings
 // that touch are reported as not simple (pruning is then skipped, which
 // costs time but not correctness).
-func simpleRings(rings [][]ipt) bool {
+func simpleRings(rings [][]ipt, sc *ints) bool {
 	n := 0
 	for _, q := range rings {
 		n += len(q)
@@ -289,10 +289,7 @@ func simpleRings(rings [][]ipt) bool {
 	// Edge s runs from pts[s] to pts[sb[s]]; ring[s] is its ring and
 	// rs[ring[s]] the ring's first edge.
 	pts := make([]ipt, 0, n)
-	sa := make([]int32, n)
-	sb := make([]int32, n)
-	ring := make([]int32, n)
-	rs := make([]int32, len(rings)+1)
+	sa, sb, ring, rs := sc.get(n), sc.get(n), sc.get(n), sc.get(len(rings)+1)
 	for k, q := range rings {
 		b := int32(len(pts))
 		rs[k] = b
@@ -304,7 +301,8 @@ func simpleRings(rings [][]ipt) bool {
 		sb[b+int32(len(q))-1] = b
 	}
 	rs[len(rings)] = int32(n)
-	_, start, segs, _, _ := bucketSegments(pts, sa, sb, 0)
+	_, start, segs, flat, fstart := bucketSegments(pts, sa, sb, 0, sc)
+	defer sc.put(sa, sb, ring, rs, start, segs, flat, fstart)
 	for c := 0; c+1 < len(start); c++ {
 		list := segs[start[c]:start[c+1]]
 		for i, s := range list {

@@ -6,7 +6,7 @@ import "math"
 // grid sized to their number and mean length, and returns the grid and its
 // cells in CSR form (the segments of cell c are segs[start[c]:start[c+1]]).
 // The grid's margin m is kept.
-func bucketSegments(pts []ipt, sa, sb []int32, m float64) (g grid, start, segs, segCells, segCellStart []int32) {
+func bucketSegments(pts []ipt, sa, sb []int32, m float64, sc *ints) (g grid, start, segs, segCells, segCellStart []int32) {
 	minX, minY := int64(math.MaxInt64), int64(math.MaxInt64)
 	maxX, maxY := int64(math.MinInt64), int64(math.MinInt64)
 	var total float64
@@ -23,9 +23,9 @@ func bucketSegments(pts []ipt, sa, sb []int32, m float64) (g grid, start, segs, 
 	g.nx = int(w/cs) + 1
 	g.ny = int(h/cs) + 1
 	ncell := g.nx * g.ny
-	count := make([]int32, 2*(ncell+1))
-	flat := make([]int32, 0, 3*len(sa))
-	fstart := make([]int32, len(sa)+1)
+	count := sc.zeroed(2 * (ncell + 1))
+	flat := sc.get(3 * len(sa))[:0]
+	fstart := sc.get(len(sa) + 1)
 	for i := range sa {
 		fstart[i] = int32(len(flat))
 		k := len(flat)
@@ -41,7 +41,7 @@ func bucketSegments(pts []ipt, sa, sb []int32, m float64) (g grid, start, segs, 
 	start = count[:ncell+1]
 	fill := count[ncell+1:]
 	copy(fill, start)
-	segs = make([]int32, len(flat))
+	segs = sc.get(len(flat))
 	for i := range sa {
 		for _, c := range flat[fstart[i]:fstart[i+1]] {
 			segs[fill[c]] = int32(i)
@@ -49,6 +49,49 @@ func bucketSegments(pts []ipt, sa, sb []int32, m float64) (g grid, start, segs, 
 		}
 	}
 	return g, start, segs, flat, fstart
+}
+
+// ints is a free list of int32 slices, so that the passes of one offset
+// reuse each other's scratch memory. A nil *ints allocates.
+type ints struct{ free [][]int32 }
+
+// get returns a slice of length n with undefined contents.
+func (p *ints) get(n int) []int32 {
+	if p == nil {
+		return make([]int32, n)
+	}
+	best := -1
+	for i, s := range p.free {
+		if cap(s) >= n && (best < 0 || cap(s) < cap(p.free[best])) {
+			best = i
+		}
+	}
+	if best < 0 {
+		return make([]int32, n)
+	}
+	s := p.free[best]
+	p.free[best] = p.free[len(p.free)-1]
+	p.free = p.free[:len(p.free)-1]
+	return s[:n]
+}
+
+// zeroed returns a slice of n zeros.
+func (p *ints) zeroed(n int) []int32 {
+	s := p.get(n)
+	clear(s)
+	return s
+}
+
+// put hands slices back; the caller must not use them any more.
+func (p *ints) put(ss ...[]int32) {
+	if p == nil {
+		return
+	}
+	for _, s := range ss {
+		if cap(s) > 0 {
+			p.free = append(p.free, s)
+		}
+	}
 }
 
 // rayIndex answers winding-number queries about a closed system of
