@@ -65,15 +65,20 @@ type spiralFront struct {
 func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiralFront, pos geom.Point, p spiralParams) ([]bandedPiece, geom.Point, error) {
 	climbOnly := p.climbOnly
 	var out []bandedPiece
-	prev := start
+	// Fronts whose growth is still to come, each with its own group:
+	// depth first, so the tool follows one side of a split front to its
+	// end instead of crossing the cleared middle on every round.
+	stack := [][]spiralFront{start}
 	lastClosed := false
-	// Open passes cut in this and the previous round of fronts, for the
-	// turns at walls.
+	// Open passes cut in this round and in the group it grows from, for
+	// the turns at walls.
 	var recent, older [][]geom.Point
-	for iter := 0; iter < 100000; iter++ {
+	for iter := 0; iter < 100000 && len(stack) > 0; iter++ {
 		if err := ctx.Err(); err != nil {
 			return nil, pos, err
 		}
+		prev := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
 		var segs []spiralSeg
 		for _, f := range prev {
 			for i := 0; i+1 < len(f.pts); i++ {
@@ -81,7 +86,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 		}
 		if len(segs) == 0 {
-			break
+			continue
 		}
 		g.propagate(segs, p.maxStep+3*p.h)
 		raw := g.contours(segs, p.maxStep+3*p.h)
@@ -93,21 +98,19 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 		}
 		if len(fronts) == 0 {
+			// Nothing long enough to cut: take what was reached.
 			g.sweepReached(segs)
-			if len(g.touched) == 0 || g.unreached() == 0 {
-				break
-			}
-			// Nothing long enough to cut: take what was reached and stop
-			// when the sweep no longer moves.
-			before := g.unreached()
-			if before == 0 {
-				break
-			}
-			break
+			continue
 		}
-		older, recent = recent, nil
+		older, recent = nil, nil
+		for _, f := range prev {
+			if !f.closed {
+				older = append(older, f.pts)
+			}
+		}
 		// Sequence the fronts: nearest first, climb direction fixed.
 		done := make([]bool, len(fronts))
+		var order []int
 		for range fronts {
 			bi, bd, bk := -1, math.Inf(1), 0
 			for i, f := range fronts {
@@ -132,6 +135,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 				}
 			}
 			done[bi] = true
+			order = append(order, bi)
 			f := fronts[bi]
 			pts := f.pts
 			if f.closed {
@@ -174,7 +178,10 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 		}
 		g.sweepReached(segs)
-		prev = fronts
+		// The last front cut grows first.
+		for _, k := range order {
+			stack = append(stack, []spiralFront{fronts[k]})
+		}
 	}
 	if p.noBoundary {
 		return out, pos, nil
