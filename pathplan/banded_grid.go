@@ -35,6 +35,8 @@ type bandedWalls struct {
 	nx, ny       int
 	edges        [][2]geom.Point
 	bucket       [][]int32
+	seen         []uint32 // scratch: bucket visited in this query
+	gen          uint32
 }
 
 // newBandedWalls buckets the edges of c in square cells of side cell.
@@ -70,15 +72,35 @@ func (w *bandedWalls) span(a, b geom.Point) (i0, j0, i1, j1 int) {
 	return
 }
 
-// crosses reports whether the segment ab meets the outline.
+// crosses reports whether the segment ab meets the outline. It visits the
+// buckets along the segment (each sample's bucket and its eight
+// neighbours, samples a quarter bucket apart, so every bucket the segment
+// touches is visited) rather than its whole bounding box.
 func (w *bandedWalls) crosses(a, b geom.Point) bool {
-	i0, j0, i1, j1 := w.span(a, b)
-	for j := j0; j <= j1; j++ {
-		for i := i0; i <= i1; i++ {
-			for _, id := range w.bucket[j*w.nx+i] {
-				e := w.edges[id]
-				if geom.SegmentsMeet(a, b, e[0], e[1]) {
-					return true
+	w.gen++
+	if len(w.seen) != len(w.bucket) {
+		w.seen = make([]uint32, len(w.bucket))
+	}
+	n := int(math.Ceil(a.Dist(b)/(0.25*w.cell))) + 1
+	for k := 0; k <= n; k++ {
+		q := a.Lerp(b, float64(k)/float64(n))
+		ci := int(math.Floor((q.X - w.x0) / w.cell))
+		cj := int(math.Floor((q.Y - w.y0) / w.cell))
+		for j := cj - 1; j <= cj+1; j++ {
+			for i := ci - 1; i <= ci+1; i++ {
+				if i < 0 || j < 0 || i >= w.nx || j >= w.ny {
+					continue
+				}
+				bk := j*w.nx + i
+				if w.seen[bk] == w.gen {
+					continue
+				}
+				w.seen[bk] = w.gen
+				for _, id := range w.bucket[bk] {
+					e := w.edges[id]
+					if geom.SegmentsMeet(a, b, e[0], e[1]) {
+						return true
+					}
 				}
 			}
 		}

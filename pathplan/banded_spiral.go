@@ -502,9 +502,13 @@ func abs(i int) int {
 // linkClear reports whether the segment ab runs through swept nodes, ends
 // excepted within slack.
 func linkClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
-	if g.walls != nil && g.walls.crosses(a, b) {
-		return false
-	}
+	// The nodes first; the exact outline decides (the costlier check,
+	// so it comes last).
+	return linkNodesClear(g, a, b, slack) && (g.walls == nil || !g.walls.crosses(a, b))
+}
+
+// linkNodesClear is linkClear on the node raster alone.
+func linkNodesClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
 	l := a.Dist(b)
 	n := int(math.Ceil(l/(0.5*g.h))) + 1
 	for i := 0; i <= n; i++ {
@@ -605,15 +609,25 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 		nodes[i], nodes[j] = nodes[j], nodes[i]
 	}
 	nodes[0], nodes[len(nodes)-1] = a, b
-	// String pulling.
+	// String pulling on the nodes, then the exact outline check of each
+	// leg (shortened until it holds; a leg between neighbouring nodes is
+	// kept).
 	out := []geom.Point{a}
 	i := 0
 	for i < len(nodes)-1 {
 		j := len(nodes) - 1
-		for j > i+1 && !linkClear(g, nodes[i], nodes[j], slack) {
+		for j > i+1 && !linkNodesClear(g, nodes[i], nodes[j], slack) {
 			j--
 		}
-		out = append(out, nodes[j])
+		if j > i+1 && g.walls != nil && g.walls.crosses(nodes[i], nodes[j]) {
+			// Keep the node chain here: legs between neighbouring nodes
+			// inside the domain clip a convex outline arc of radius R by
+			// at most (1.5 h)²/(8R), below the domain's margin for the
+			// arcs of islands and walls (R ≥ r).
+			out = append(out, nodes[i+1:j+1]...)
+		} else {
+			out = append(out, nodes[j])
+		}
 		i = j
 	}
 	return out
