@@ -201,9 +201,15 @@ func trochoidPitch(r, rt, phiMax float64) float64 {
 }
 
 // coveredBy reports whether (qx, qy) lies within r of the polyline pts.
+// It runs from the end, the stretch nearest a tool that follows it, and
+// skips segments whose box lies farther than r.
 func coveredBy(pts [][2]float64, qx, qy, r float64) bool {
-	for i := 0; i+1 < len(pts); i++ {
+	for i := len(pts) - 2; i >= 0; i-- {
 		ax, ay := pts[i][0], pts[i][1]
+		bx, by := pts[i+1][0], pts[i+1][1]
+		if qx < math.Min(ax, bx)-r || qx > math.Max(ax, bx)+r || qy < math.Min(ay, by)-r || qy > math.Max(ay, by)+r {
+			continue
+		}
 		dx, dy := pts[i+1][0]-ax, pts[i+1][1]-ay
 		l2 := dx*dx + dy*dy
 		t := 0.0
