@@ -22,6 +22,7 @@ type BandedOptions struct {
 	// about a third of the target radial width.
 	GridStep float64
 	// NoVerify skips the simulation and local repair of the finished path.
+	// The repair step is not built yet, so it changes nothing today.
 	NoVerify bool
 	// ClimbOnly keeps every pass in climb milling; by default a pass that
 	// runs from wall to wall may be cut either way, whichever end is nearer,
@@ -105,9 +106,12 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // flute-length levels, a helix at the deepest point of closed domains or a
 // start in the air for open ones, fronts grown outward from there at the
 // target engagement, trochoidal clearing where the fronts cannot hold it,
-// links through cut material and a last pass along the walls. Unless
-// opts.NoVerify is set, the path is simulated and repaired where the band
-// is exceeded.
+// links through cut material and a last pass along the walls. Fronts grow
+// depth first, so the tool follows one side of a split front to its end;
+// at a wall the tool turns onto the next pass by ramping along the pass
+// beside it. The simulation and local repair of the finished path (see
+// BandedOptions.NoVerify) are not built yet: BandedReport measures the
+// path, and issue 6's figures are checked per feature in the tests.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
 	if job == nil {
 		return nil, errors.New("banded: no job")
