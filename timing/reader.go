@@ -323,6 +323,11 @@ func (r *Reader) parseLine(b []byte) error {
 		}
 		v, n, ok := parseNumber(b[i:])
 		if !ok {
+			if strings.ContainsAny(string(b[i:i+n]), "0123456789") {
+				// RS-274 numbers are decimals a float64 holds; one beyond
+				// ±1.8e308 is a damaged or generated-wrong line.
+				return r.errf("word %c: number of %d characters is out of range (too long for a float64)", c, n)
+			}
 			return r.errf("word %c needs a number", c)
 		}
 		i += n

@@ -147,6 +147,9 @@ func TestReaderErrors(t *testing.T) {
 		{"(\n", 1, "not closed"},
 		{"G1 X1 F10 (a (b) c)\n", 1, "nested"},
 		{"\n\nG1 X# F10\n", 3, "needs a number"},
+		// a float64 holds at most ±1.8e308 (IEEE 754 binary64)
+		{"\nG1 F10 X1" + strings.Repeat("0", 400) + "\n", 2, "out of range"},
+		{"G1 X+ F10\n", 1, "needs a number"},
 		{"G1 X1 X2 F10\n", 1, "twice"},
 		{"G0 A10\n", 1, "axis A"},
 		{"G1 X1 F10\nG2 X5 Y5 I1 J0\n", 2, "radius"},
