@@ -20,6 +20,9 @@ func geojsonTypeName(t sf.GeometryType) string { return t.String() }
 // a geometry, unclosed rings and invalid shapes are errors naming the
 // feature (by index from 0, and id when it has one) and the part.
 func ParseGeoJSON(b []byte) (Shape, error) {
+	if err := checkGeoJSONSyntax(b); err != nil {
+		return nil, fmt.Errorf("GeoJSON: %w", err)
+	}
 	var head struct {
 		Type     string            `json:"type"`
 		Features []json.RawMessage `json:"features"`

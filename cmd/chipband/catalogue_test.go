@@ -174,7 +174,7 @@ func badCatalogue() []badCase {
 		g("gcode_r_arc_too_short_line6.nc", "line 6", "R5"),
 		// Numbers in RS-274 have no exponent; "1e999" is X1 then word E.
 		g("gcode_exponent_notation_line6.nc", "line 6"),
-		g("gcode_number_400_digits_line6.nc", "line 6", "X"),
+		g("gcode_number_400_digits_line6.nc", "line 6", "X", "out of range"), // IEEE 754 binary64 ends near 1.8e308
 		// Two G-codes of one modal group on a line are an error
 		// (NISTIR 6556 §3.4).
 		{name: "time/gcode_two_unit_codes_line6.nc", args: []string{"time", "--machine", "@machine", "@bad/gcode_two_unit_codes_line6.nc"},
@@ -203,11 +203,12 @@ func badCatalogue() []badCase {
 
 		// GeoJSON (RFC 7946 §3.1.6: a linear ring is closed, first and
 		// last positions equal; §3.1.1: positions are numbers).
-		w("geojson_syntax_missing_brace.geojson", "GeoJSON"),
+		w("geojson_syntax_missing_brace.geojson", "GeoJSON", "line 1", "still open"),           // RFC 8259: every object and array closes
+		w("geojson_syntax_missing_comma_line3.geojson", "GeoJSON", "line 3", "not valid JSON"), // RFC 8259: array elements are separated by commas
 		w("geojson_point_not_area.geojson", "Point"),
 		w("geojson_ring_not_closed.geojson", "not closed"),
 		w("geojson_bowtie.geojson", "self-intersect"),
-		w("geojson_string_coordinate.geojson", "GeoJSON"),
+		w("geojson_string_coordinate.geojson", "GeoJSON", "line 1", "coordinates[0][0][0]", "must be a number"), // RFC 7946 §3.1.1: a position is an array of numbers
 		w("geojson_feature_without_geometry.geojson", "geometry"),
 
 		// SVG goes through the library reader (see TestBadSVGCatalogue).
