@@ -153,6 +153,9 @@ func Split(ctx context.Context, c geom.Shape, rho, tol float64, opt SplitOptions
 	bays := append(geom.Shape(nil), open.Normalized()...)
 	sortRegions(bays, tol*tol)
 	for i, g := range bays {
+		if err := ctx.Err(); err != nil {
+			return Zones{}, fmt.Errorf("split: %w", err)
+		}
 		p, r, err := DeepestPoint(g, tol)
 		if err != nil {
 			return Zones{}, fmt.Errorf("split: bay %d: %w", i, err)
@@ -167,7 +170,7 @@ func Split(ctx context.Context, c geom.Shape, rho, tol float64, opt SplitOptions
 		if err != nil {
 			return Zones{}, fmt.Errorf("split: growing the bays by %g: %w", grow, err)
 		}
-		if rest, err = geom.Difference(c, grown); err != nil {
+		if rest, err = differenceCtx(ctx, c, grown); err != nil {
 			return Zones{}, fmt.Errorf("split: domain less bays: %w", err)
 		}
 	}
@@ -817,4 +820,25 @@ func (x *segIndex) crosses(p, q geom.Point) bool {
 		return found
 	})
 	return found
+}
+
+// differenceCtx is geom.Difference that returns as soon as ctx is done.
+// The set operation itself cannot be interrupted: it runs on in its own
+// goroutine until it finishes, and its result is dropped.
+func differenceCtx(ctx context.Context, a, b geom.Shape) (geom.Shape, error) {
+	type result struct {
+		s   geom.Shape
+		err error
+	}
+	done := make(chan result, 1)
+	go func() {
+		s, err := geom.Difference(a, b)
+		done <- result{s, err}
+	}()
+	select {
+	case <-ctx.Done():
+		return nil, ctx.Err()
+	case r := <-done:
+		return r.s, r.err
+	}
 }
