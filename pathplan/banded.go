@@ -111,13 +111,16 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // at a wall the tool turns onto the next pass by ramping along the pass
 // beside it. The simulation and local repair of the finished path (see
 // BandedOptions.NoVerify) are not built yet: BandedReport measures the
-// path, and issue 6's figures are checked per feature in the tests.
+// path, and the tests check its engagement figures per feature.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
 	if job == nil {
 		return nil, errors.New("banded: no job")
 	}
 	st, err := bandedSetup(job, opts)
 	if err != nil {
+		return nil, err
+	}
+	if err := checkPathBudget(job, "banded"); err != nil {
 		return nil, err
 	}
 	tol := opts.Tolerance

@@ -32,3 +32,19 @@ func TestPathBudget(t *testing.T) {
 		t.Errorf("banded estimate %g, want %g", got, want)
 	}
 }
+
+func TestPathBudgetBanded(t *testing.T) {
+	// The same 4 m sheet as TestPathBudget: 2 × 15.84e6 mm² / (0.05 × 1 mm)
+	// ≈ 6.3e8 mm, above MaxPathLength.
+	j := &Job{
+		Stock:     Stock{Outline: geom.Shape{{Outer: geom.RectRing(0, 0, 4000, 4000)}}},
+		Features:  []Feature{{Name: "sheet", Region: geom.Shape{{Outer: geom.RectRing(10, 10, 3990, 3990)}}, Depth: 50}},
+		Tool:      Tool{Diameter: 1, FluteLength: 60, Flutes: 2},
+		Cut:       Cut{SpindleRPM: 20000, ChipLoad: 0.01, RampAngle: 3, HelixDiameter: 0.5, Band: [2]float64{0.05, 0.1}},
+		Clearance: 5,
+	}
+	_, err := PlanBanded(context.Background(), j, BandedOptions{})
+	if err == nil || !strings.Contains(err.Error(), "km long") || !IsJobError(err) {
+		t.Fatalf("PlanBanded: err %v, want the path-length limit as a job error", err)
+	}
+}
