@@ -256,7 +256,7 @@ type levelGeom struct {
 	mArea       float64
 	D           geom.Shape // M grown by tool radius + lead: where rings are kept
 	dIx         *edgeIndex
-	air         geom.Shape // what is air once this level is cut
+	air         geom.Shape // what is air once this level is cut: the rings' swept disks, the outside and the grown walls
 	unreachable float64
 	narrow      []string
 	roots       []*node
@@ -356,7 +356,21 @@ func (p *planner) geometry(fi int, mask []int) (*levelGeom, error) {
 		if reach, err = geom.Intersection(g.M, grown); err != nil {
 			return nil, fail("reach", err)
 		}
-		if g.air, err = unionAll(reach, p.outside, p.keepGrown); err != nil {
+		// What the rings actually cut: the tool's disk swept along X[0]
+		// reaches r past it, which stops the allowance and guard short of
+		// the level's walls. The opening by rho0 (reach) would count that
+		// strip as cut; where the wall is a later, deeper feature that strip
+		// still stands at this level, and a descent sized by it meets
+		// material (elementary geometry: X[0] ⊕ disk(r) ⊂ X[0] ⊕ disk(rho0)).
+		swept, err := offset.Offset(g.X[0], p.r, p.tol)
+		if err != nil {
+			return nil, fail("cut area", err)
+		}
+		cut, err := geom.Intersection(g.M, swept)
+		if err != nil {
+			return nil, fail("cut area", err)
+		}
+		if g.air, err = unionAll(cut, p.outside, p.keepGrown); err != nil {
 			return nil, fail("cut area", err)
 		}
 	}
@@ -785,12 +799,15 @@ func (p *planner) descend(q geom.Point, z float64) float64 {
 }
 
 // nearKeep reports whether the tool's disk at q comes within twice the
-// margin of stock that no feature cuts.
+// margin of the allowance left on stock that no feature cuts. The
+// allowance strip stands to the top at every level, so a disk on the
+// outermost ring touches it (the ring keeps the allowance and guard from
+// the wall, no more).
 func (p *planner) nearKeep(q geom.Point) bool {
 	if p.keepIx == nil {
 		return false
 	}
-	lim := p.r + 2*p.margin
+	lim := p.r + p.a + p.guard + 2*p.margin
 	return p.keepIx.clearance(q, q, lim+1) < lim
 }
 
