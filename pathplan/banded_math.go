@@ -91,16 +91,7 @@ func bandedLevels(top, depth, flute float64) []float64 {
 	if flute <= 0 {
 		flute = depth
 	}
-	n := int(math.Ceil(depth/flute - 1e-9))
-	if n < 1 {
-		n = 1
-	}
-	out := make([]float64, n)
-	for i := range out {
-		out[i] = top - depth*float64(i+1)/float64(n)
-	}
-	out[n-1] = top - depth
-	return out
+	return levelsFor(top, depth, flute)
 }
 
 // trochoidPoint returns the tool centre of a trochoid along the x axis with
