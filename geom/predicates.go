@@ -8,10 +8,10 @@ import (
 // Orient returns the sign of the turn a → b → c: +1 when c lies to the left
 // of the directed line ab (counter-clockwise), −1 when it lies to the right
 // and 0 when the three points are collinear. The answer is exact: a float64
-// evaluation is used when its error bound proves the sign (Shewchuk 1997,
-// "Adaptive precision floating-point arithmetic and fast robust geometric
-// predicates", the static filter of orient2d), and exact rational
-// arithmetic otherwise. The coordinates must be finite.
+// evaluation is used when its error bound proves the sign (the static
+// error filter of orient2d in J. R. Shewchuk's 1997 paper on robust
+// geometric predicates, Discrete & Computational Geometry 18), and exact
+// rational arithmetic otherwise. The coordinates must be finite.
 func Orient(a, b, c Point) int {
 	detl := (b.X - a.X) * (c.Y - a.Y)
 	detr := (b.Y - a.Y) * (c.X - a.X)
