@@ -173,16 +173,23 @@ func trochoidMaxPhi(r, rt, p float64) float64 {
 // angle at or below phiMax (bisection on trochoidMaxPhi, which grows with
 // the pitch), and never more than the cutter radius.
 func trochoidPitch(r, rt, phiMax float64) float64 {
+	return largestPitch(r, phiMax, 12, func(p float64) float64 { return trochoidMaxPhi(r, rt, p) })
+}
+
+// largestPitch bisects, in iters steps, for the largest pitch in
+// [0.01·r, r] whose engagement angle maxPhi(pitch) — growing with the
+// pitch — stays at or below phiMax.
+func largestPitch(r, phiMax float64, iters int, maxPhi func(pitch float64) float64) float64 {
 	lo, hi := 0.01*r, r
-	if trochoidMaxPhi(r, rt, hi) <= phiMax {
+	if maxPhi(hi) <= phiMax {
 		return hi
 	}
-	if trochoidMaxPhi(r, rt, lo) > phiMax {
+	if maxPhi(lo) > phiMax {
 		return lo
 	}
-	for i := 0; i < 12; i++ {
+	for i := 0; i < iters; i++ {
 		m := (lo + hi) / 2
-		if trochoidMaxPhi(r, rt, m) <= phiMax {
+		if maxPhi(m) <= phiMax {
 			lo = m
 		} else {
 			hi = m
@@ -285,20 +292,5 @@ func trochoidHeldMaxPhi(r, rt, p float64) float64 {
 // the engagement angle at or below phiMax (bisection), never more than the
 // cutter radius.
 func trochoidHeldPitch(r, rt, phiMax float64) float64 {
-	lo, hi := 0.01*r, r
-	if trochoidHeldMaxPhi(r, rt, hi) <= phiMax {
-		return hi
-	}
-	if trochoidHeldMaxPhi(r, rt, lo) > phiMax {
-		return lo
-	}
-	for i := 0; i < 10; i++ {
-		m := (lo + hi) / 2
-		if trochoidHeldMaxPhi(r, rt, m) <= phiMax {
-			lo = m
-		} else {
-			hi = m
-		}
-	}
-	return lo
+	return largestPitch(r, phiMax, 10, func(p float64) float64 { return trochoidHeldMaxPhi(r, rt, p) })
 }
