@@ -26,12 +26,19 @@ const (
 	Rapid                     // positioning at rapid rate
 )
 
-var classNames = [...]string{"air", "cut", "entry", "plunge", "rapid"}
-
 // String returns the lower-case name of c.
 func (c SampleClass) String() string {
-	if int(c) < len(classNames) {
-		return classNames[c]
+	switch c {
+	case Air:
+		return "air"
+	case Cut:
+		return "cut"
+	case Entry:
+		return "entry"
+	case Plunge:
+		return "plunge"
+	case Rapid:
+		return "rapid"
 	}
 	return "unknown"
 }

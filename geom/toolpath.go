@@ -25,12 +25,21 @@ const (
 	Finish                 // finishing pass along walls and floor
 )
 
-var moveKindNames = [...]string{"rapid", "feed", "entry", "link", "lift", "finish"}
-
 // String returns the lower-case name of k.
 func (k MoveKind) String() string {
-	if int(k) < len(moveKindNames) {
-		return moveKindNames[k]
+	switch k {
+	case Rapid:
+		return "rapid"
+	case Feed:
+		return "feed"
+	case Entry:
+		return "entry"
+	case Link:
+		return "link"
+	case Lift:
+		return "lift"
+	case Finish:
+		return "finish"
 	}
 	return "unknown"
 }
