@@ -283,6 +283,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
 	var start []spiralFront
 	var pos geom.Point
+	inAir := false
 	approachZ := levelTop + st.safe
 	if comp.open {
 		grown, err := offset.Offset(job.Stock.Outline, st.r+0.01, DefaultTolerance)
@@ -318,15 +319,21 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 				}
 			}
 		}
-		if bk < 0 {
-			return errors.New("open domain without air")
+		if bk >= 0 {
+			pos, inAir = g.pt(bk), true
+		} else {
+			// A part thinner than the raster has no node in the air;
+			// a vertex of its outline outside the grown stock will do.
+			pos, inAir = bandedAirVertex(comp.c, grown, b.pos.XY())
 		}
-		pos = g.pt(bk)
+	}
+	if inAir {
 		b.rapid(p3(b.pos.XY(), clear))
 		b.rapid(p3(pos, clear))
 		b.rapid(p3(pos, z+st.safe))
 		b.feed(geom.Link, p3(pos, z), st.entry)
 	} else {
+		// A closed part, or an open one whose air start was not found.
 		c, rad, _, err := offset.DeepestPointOfShape(comp.c, 0.01)
 		_ = err
 		hr := math.Min(st.helixR, rad-0.02)
@@ -351,6 +358,25 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	}
 	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
+}
+
+// bandedAirVertex returns the vertex of c's outline nearest to from that
+// lies outside grown (the stock outline grown by the tool radius, where the
+// tool is clear of the stock); false when there is none.
+func bandedAirVertex(c, grown geom.Shape, from geom.Point) (geom.Point, bool) {
+	var best geom.Point
+	bd := math.Inf(1)
+	for _, ring := range c.Rings() {
+		for _, q := range ring {
+			if grown.Contains(q) || grown.DistanceToBoundary(q) < 1e-6 {
+				continue
+			}
+			if d := q.Dist(from); d < bd {
+				best, bd = q, d
+			}
+		}
+	}
+	return best, bd < math.Inf(1)
 }
 
 // bandedHelix descends from z0 to z1 on a clockwise helix of radius hr

@@ -130,7 +130,8 @@ func bandedDiskFront(c geom.Point, rad float64, p spiralParams) spiralFront {
 // open) and cleared by fronts; from every cleared bay its channels are
 // cleared by trochoidal loops along their spines, a channel that leads to
 // a bay not yet cleared carrying the tool there, whose fronts then grow from
-// the last loop; dead-end channels are left back along the spine. A last
+// the last loop; a bay beyond a throat too narrow for the loops is entered
+// by its own helix instead; dead-end channels are left back along the spine. A last
 // pass along the walls of the whole part takes the cusps of loops and
 // fronts.
 func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zones *offset.Zones, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
@@ -272,6 +273,41 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 				}
 				dead := other < 0
 				run := trochoidRun(comp.c, spine, clr, dead, pitch, st)
+				if run.short && !dead && !visited[other] {
+					// The loops stop at a throat too narrow for them, so
+					// no front reaches the bay beyond: enter it by its
+					// own helix (the wall pass takes the throat).
+					if len(run.pts) >= 2 {
+						if d := pos.Dist(run.pts[0]); d > 1e-6 {
+							pieces = append(pieces, spiralLink(g, pos, run.pts[0], p)...)
+						}
+						pieces = append(pieces, bandedPiece{kind: pieceTrochoid, pts: run.pts})
+						sum.Rings++
+						for k, c := range run.centres {
+							g.markDisk(c, run.rts[k])
+						}
+						pos = run.pts[len(run.pts)-1]
+					}
+					bay := zones.Bays[other]
+					hr := math.Min(st.helixR, bay.Radius-0.02)
+					if hr < 0.1*st.r {
+						continue // no helix fits; the wall pass is all it gets
+					}
+					bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
+					pieces = nil
+					grids[other].markDisk(bay.Deepest, hr)
+					f := bandedDiskFront(bay.Deepest, hr, p)
+					pos = f.pts[0]
+					b.rapid(p3(b.pos.XY(), clear))
+					b.rapid(p3(pos, clear))
+					b.rapid(p3(pos, approachZ))
+					bandedHelix(b, bay.Deepest, hr, approachZ, z, st)
+					sum.Entries++
+					if err := clearBay(other, []spiralFront{f}); err != nil {
+						return err
+					}
+					continue
+				}
 				if len(run.pts) < 2 {
 					continue
 				}
@@ -328,6 +364,9 @@ func reversedFloats(v []float64) []float64 {
 type bandedTrochoid struct {
 	pts, centres []geom.Point
 	rts          []float64
+	// short is set when the run stops before the end of its spine because
+	// the channel narrows below the smallest loop.
+	short bool
 }
 
 // trochoidRun lays trochoidal loops along spine, counter-clockwise, so the
@@ -404,6 +443,7 @@ func trochoidRun(c geom.Shape, spine []geom.Point, clr []float64, dead bool, pit
 	q0, _, cl0 := at(0)
 	rt0 := radius(q0, cl0)
 	if rt0 < 0.1*st.r {
+		out.short = true
 		return out
 	}
 	// The first front half stands one loop radius back from the spine's
@@ -424,6 +464,7 @@ func trochoidRun(c geom.Shape, spine []geom.Point, clr []float64, dead bool, pit
 		q, _, cl := at(s)
 		rt := radius(q, cl)
 		if rt < 0.1*st.r {
+			out.short = true
 			break
 		}
 		pch := math.Min(pitch(rt), sEnd-s)

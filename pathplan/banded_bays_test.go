@@ -1,0 +1,64 @@
+package pathplan
+
+import (
+	"context"
+	"encoding/hex"
+	"testing"
+)
+
+// TestBandedBayEntries plans generated jobs (genJob inputs) that a 500-job
+// run of TestRandomPocketProperties found failing and checks the same
+// properties the property test does, with its thresholds (the reliability
+// issue's: uncut reachable material at most 0.5 % of the feature area, no
+// wall gouge deeper than 0.005 mm, none below a floor, no rapid through
+// material). The first four have two bays joined only by channels whose
+// throat is too narrow for a trochoidal loop, so no front ever reached the
+// second bay; the last has an open domain part thinner than the raster,
+// with no node in the air to start from.
+func TestBandedBayEntries(t *testing.T) {
+	jobs := []string{
+		"1584dfd405aa2609f882a6ebd5f99e7663553d05130c11be48d66cd00288025fa5181afbaf650db23487f3d178c2144ff3bd3e1836b6c468dff6bf79fae92dc3",
+		"3ca95606b52a90af50421dd5e60ed762505fe1ec7beabf8e8dd8b0cf67bba97221d6e509433e0b0c11161bdbba747498e3a969d141a6d858147c327b186cdd8a",
+		"7d1b7838c90e8bd33bc2885c1d1b1bbef208d9d8248484dc71ccd19c58475eeb0e6fad5ba952ecc0db07b40ea29ca44e9bdeaf1065a39408dc3f7b71436ae257",
+		"36223caabc5dcebd9cbbcccfc234a5fd9e1c2195af36a016ef7e9d309b73ff0bb951de1baafb2584d6613312910abe25b195b9f6c2a2652b9876cc46d39813da",
+		"f3c06eedeaedce1e07874f835a5038c36ca3ad72836391e23d54da8b981efb21a2d115e509cc210f73dcb87797cbdd2c56d898ba212faddb2e286a71d5348880",
+	}
+	for _, hx := range jobs {
+		t.Run(hx[:16], func(t *testing.T) {
+			data, err := hex.DecodeString(hx)
+			if err != nil {
+				t.Fatal(err)
+			}
+			j := genJob(data)
+			if err := j.Validate(); err != nil {
+				t.Fatalf("generated job is invalid: %v", err)
+			}
+			p, err := PlanBanded(context.Background(), j, BandedOptions{})
+			if err != nil {
+				t.Fatalf("plan: %v", err)
+			}
+			checkPlanOutput(t, p)
+			s := simulateGen(context.Background(), t, j, p, 0, 0, true)
+			// Thresholds of TestRandomPocketProperties (the reliability issue).
+			if g, gm := genExactGouge(p, genKeep(t, j), j.Stock.Top, j.Tool.Radius()); g > 0.005 {
+				t.Errorf("wall gouge %.4f mm in move %d", g, gm)
+			}
+			if len(s.RapidViolations) > 0 {
+				v := s.RapidViolations[0]
+				t.Errorf("%d rapid(s) through material, first move %d, %.3f mm deep", len(s.RapidViolations), v.Move, v.Depth)
+			}
+			areas := map[string]float64{}
+			for _, fs := range p.Features {
+				areas[fs.Name] = fs.Area
+			}
+			for _, tr := range s.Targets {
+				if tr.FloorGouge > 0.005 {
+					t.Errorf("feature %s: cut %.4f mm below the floor", tr.Name, tr.FloorGouge)
+				}
+				if a := areas[tr.Name]; a > 0 && tr.UncutArea > 0.005*a {
+					t.Errorf("feature %s: uncut reachable %.3f mm² of %.1f mm² (%.2f %%)", tr.Name, tr.UncutArea, a, 100*tr.UncutArea/a)
+				}
+			}
+		})
+	}
+}
