@@ -40,7 +40,7 @@ func TestBandedBayEntries(t *testing.T) {
 			checkPlanOutput(t, p)
 			s := simulateGen(context.Background(), t, j, p, 0, 0, true)
 			// Thresholds of TestRandomPocketProperties (the reliability issue).
-			if g, gm := genExactGouge(p, genKeep(t, j), j.Stock.Top, j.Tool.Radius()); g > 0.005 {
+			if g, gm := genExactGouge(p, keepShape(t, j), j.Stock.Top, j.Tool.Radius()); g > 0.005 {
 				t.Errorf("wall gouge %.4f mm in move %d", g, gm)
 			}
 			if len(s.RapidViolations) > 0 {

@@ -112,20 +112,6 @@ func genJob(data []byte) *Job {
 
 func round3(v float64) float64 { return math.Round(v*1000) / 1000 }
 
-// genKeep is the stock that no feature may cut at any height: the stock
-// less every feature region (islands are holes, so they stay).
-func genKeep(t testing.TB, j *Job) geom.Shape {
-	t.Helper()
-	keep := j.Stock.Outline
-	for _, f := range j.Features {
-		var err error
-		if keep, err = geom.Difference(keep, f.Region); err != nil {
-			t.Fatalf("keep: %v", err)
-		}
-	}
-	return keep
-}
-
 // genReach returns, per feature, the material a tool of radius r with
 // allowance a can reach at the feature's floor: the feature inside the
 // stock, less deeper features, within the set a disk of radius r sweeps
@@ -136,33 +122,11 @@ func genKeep(t testing.TB, j *Job) geom.Shape {
 // reachable are left out.
 func genReach(t testing.TB, j *Job) []engage.Target {
 	t.Helper()
-	bb := j.Stock.Outline.Bounds()
-	for _, f := range j.Features {
-		bb = bb.Union(f.Region.Bounds())
-	}
-	m := 5*j.Tool.Diameter + 10
-	box := geom.Shape{{Outer: geom.RectRing(bb.Min.X-m, bb.Min.Y-m, bb.Max.X+m, bb.Max.Y+m)}}
-	air, err := geom.Difference(box, j.Stock.Outline)
-	if err != nil {
-		t.Fatal(err)
-	}
+	frees, deepers := floorSpace(t, j)
 	rho := j.Tool.Diameter/2 + j.Cut.Allowance
 	var out []engage.Target
-	for _, f := range j.Features {
-		free := air
-		var deeper geom.Shape
-		for _, g := range j.Features {
-			if g.Depth >= f.Depth-1e-9 {
-				if free, err = geom.Union(free, g.Region); err != nil {
-					t.Fatal(err)
-				}
-			}
-			if g.Depth > f.Depth+1e-9 {
-				if deeper, err = geom.Union(deeper, g.Region); err != nil {
-					t.Fatal(err)
-				}
-			}
-		}
+	for i, f := range j.Features {
+		free, deeper := frees[i], deepers[i]
 		centres, err := offset.Offset(free, -rho, 0.001)
 		if err != nil {
 			t.Fatal(err)
@@ -238,7 +202,7 @@ func checkPlanOutput(t testing.TB, p *Plan) []byte {
 func simulateGen(ctx context.Context, t testing.TB, j *Job, p *Plan, cell, step float64, targets bool) engage.Summary {
 	t.Helper()
 	in := engage.CheckInput{
-		Stock: j.Stock.Outline, Top: j.Stock.Top, Keep: genKeep(t, j),
+		Stock: j.Stock.Outline, Top: j.Stock.Top, Keep: keepShape(t, j),
 		SpindleRPM: j.Cut.SpindleRPM, Step: step,
 		Material: engage.MaterialOptions{CellSize: cell},
 	}

@@ -64,7 +64,7 @@ func fuzzPlan(t *testing.T, strat string, data []byte) {
 			}
 		}
 	}
-	if g, at := genExactGouge(p, genKeep(t, j), j.Stock.Top, j.Tool.Radius()); g > 0.005 {
+	if g, at := genExactGouge(p, keepShape(t, j), j.Stock.Top, j.Tool.Radius()); g > 0.005 {
 		t.Fatalf("wall gouge %.4f mm in move %d %+v", g, at, p.Path.Moves[at])
 	}
 	s := simulateGen(ctx, t, j, p, fuzzPlanCell, fuzzPlanStep, false)

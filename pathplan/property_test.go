@@ -95,7 +95,7 @@ func TestRandomPocketProperties(t *testing.T) {
 					failf("%s: two plans of one job differ (%d and %d bytes)", name, len(prog), len(prog2))
 				}
 				s := simulateGen(context.Background(), t, j, p, 0, 0, true)
-				g, gm := genExactGouge(p, genKeep(t, j), j.Stock.Top, j.Tool.Radius())
+				g, gm := genExactGouge(p, keepShape(t, j), j.Stock.Top, j.Tool.Radius())
 				worstGouge = max(worstGouge, g)
 				worstSimGouge = max(worstSimGouge, s.MaxGouge)
 				if g > 0.005 {

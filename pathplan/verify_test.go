@@ -50,33 +50,11 @@ func sortedKeys(m map[string]*Job) []string {
 // how any path is built.
 func reachTargets(t testing.TB, j *Job) []engage.Target {
 	t.Helper()
-	bb := j.Stock.Outline.Bounds()
-	for _, f := range j.Features {
-		bb = bb.Union(f.Region.Bounds())
-	}
-	m := 5*j.Tool.Diameter + 10
-	box := geom.Shape{{Outer: geom.RectRing(bb.Min.X-m, bb.Min.Y-m, bb.Max.X+m, bb.Max.Y+m)}}
-	air, err := geom.Difference(box, j.Stock.Outline)
-	if err != nil {
-		t.Fatal(err)
-	}
+	frees, deepers := floorSpace(t, j)
 	rho := j.Tool.Diameter/2 + j.Cut.Allowance
 	var out []engage.Target
-	for _, f := range j.Features {
-		free := air
-		var deeper geom.Shape
-		for _, g := range j.Features {
-			if g.Depth >= f.Depth-1e-9 {
-				if free, err = geom.Union(free, g.Region); err != nil {
-					t.Fatal(err)
-				}
-			}
-			if g.Depth > f.Depth+1e-9 {
-				if deeper, err = geom.Union(deeper, g.Region); err != nil {
-					t.Fatal(err)
-				}
-			}
-		}
+	for i, f := range j.Features {
+		free, deeper := frees[i], deepers[i]
 		open, err := offset.Open(free, rho, 0.001)
 		if err != nil {
 			t.Fatal(err)
@@ -105,17 +83,54 @@ func reachTargets(t testing.TB, j *Job) []engage.Target {
 	return out
 }
 
-// keepShape is the stock no feature may cut at any height.
+// keepShape is the stock no feature may cut at any height: the stock less
+// every feature region (islands are holes of the regions, so they stay).
 func keepShape(t testing.TB, j *Job) geom.Shape {
 	t.Helper()
-	keep := j.Stock.Outline
-	for _, f := range j.Features {
-		var err error
-		if keep, err = geom.Difference(keep, f.Region); err != nil {
-			t.Fatal(err)
-		}
+	regions := make([]geom.Shape, len(j.Features))
+	for i, f := range j.Features {
+		regions[i] = f.Region
+	}
+	keep, err := engage.KeepOf(j.Stock.Outline, regions)
+	if err != nil {
+		t.Fatalf("keep: %v", err)
 	}
 	return keep
+}
+
+// floorSpace returns, for every feature, the free space at its floor (the
+// air around the stock and every feature at least as deep) and the union
+// of the features deeper than it.
+func floorSpace(t testing.TB, j *Job) (free, deeper []geom.Shape) {
+	t.Helper()
+	bb := j.Stock.Outline.Bounds()
+	for _, f := range j.Features {
+		bb = bb.Union(f.Region.Bounds())
+	}
+	m := 5*j.Tool.Diameter + 10
+	box := geom.Shape{{Outer: geom.RectRing(bb.Min.X-m, bb.Min.Y-m, bb.Max.X+m, bb.Max.Y+m)}}
+	air, err := geom.Difference(box, j.Stock.Outline)
+	if err != nil {
+		t.Fatal(err)
+	}
+	free = make([]geom.Shape, len(j.Features))
+	deeper = make([]geom.Shape, len(j.Features))
+	for i, f := range j.Features {
+		free[i] = air
+		for _, g := range j.Features {
+			if g.Depth >= f.Depth-1e-9 {
+				if free[i], err = geom.Union(free[i], g.Region); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if g.Depth > f.Depth+1e-9 {
+				if deeper[i], err = geom.Union(deeper[i], g.Region); err != nil {
+					t.Fatal(err)
+				}
+			}
+		}
+	}
+	return free, deeper
 }
 
 // exactGouge returns how far the tool reaches into the stock no feature
