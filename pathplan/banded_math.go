@@ -150,23 +150,29 @@ func trochoidMaxPhi(r, rt, p float64) float64 {
 		if l == 0 {
 			continue
 		}
-		ux, uy = ux/l, uy/l
-		n := 0
-		for j := 0; j <= nA; j++ {
-			// Front half: angles −90°…+90° about the feed direction.
-			a := -math.Pi/2 + math.Pi*float64(j)/nA
-			ca, sa := math.Cos(a), math.Sin(a)
-			qx := cx + r*(ux*ca-uy*sa)
-			qy := cy + r*(ux*sa+uy*ca)
-			if math.Abs(qy) > rt+r || covered(qx, qy) {
-				continue
-			}
-			n++
-		}
-		phi := math.Pi * float64(n) / float64(nA+1)
-		best = math.Max(best, phi)
+		best = math.Max(best, frontAngle(cx, cy, ux/l, uy/l, r, rt+r, nA, covered))
 	}
 	return best
+}
+
+// frontAngle returns the engagement angle of a tool of radius r centred at
+// (cx, cy) and moving along the unit vector (ux, uy): π times the share of
+// nA+1 samples of the front half of its circle (−90°…+90° about the feed
+// direction) that lie in material — inside the strip |y| ≤ strip and not
+// covered by earlier cuts.
+func frontAngle(cx, cy, ux, uy, r, strip float64, nA int, covered func(x, y float64) bool) float64 {
+	n := 0
+	for j := 0; j <= nA; j++ {
+		a := -math.Pi/2 + math.Pi*float64(j)/float64(nA)
+		ca, sa := math.Cos(a), math.Sin(a)
+		qx := cx + r*(ux*ca-uy*sa)
+		qy := cy + r*(ux*sa+uy*ca)
+		if math.Abs(qy) > strip || covered(qx, qy) {
+			continue
+		}
+		n++
+	}
+	return math.Pi * float64(n) / float64(nA+1)
 }
 
 // trochoidPitch returns the largest pitch whose loops keep the engagement
@@ -271,19 +277,8 @@ func trochoidHeldMaxPhi(r, rt, p float64) float64 {
 		if l == 0 {
 			continue
 		}
-		ux, uy = ux/l, uy/l
-		n := 0
-		for j := 0; j <= nA; j++ {
-			a := -math.Pi/2 + math.Pi*float64(j)/nA
-			ca, sa := math.Cos(a), math.Sin(a)
-			qx := cx + r*(ux*ca-uy*sa)
-			qy := cy + r*(ux*sa+uy*ca)
-			if math.Abs(qy) > rt+r || coveredBy(prev, qx, qy, r) {
-				continue
-			}
-			n++
-		}
-		best = math.Max(best, math.Pi*float64(n)/float64(nA+1))
+		covered := func(qx, qy float64) bool { return coveredBy(prev, qx, qy, r) }
+		best = math.Max(best, frontAngle(cx, cy, ux/l, uy/l, r, rt+r, nA, covered))
 	}
 	return best
 }
