@@ -54,6 +54,7 @@
 package offset
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
@@ -617,19 +618,7 @@ func assemble(bnd [][]ipt) geom.Shape {
 	return out
 }
 
-func cmpPoint(p, q geom.Point) int {
-	switch {
-	case p.X < q.X:
-		return -1
-	case p.X > q.X:
-		return 1
-	case p.Y < q.Y:
-		return -1
-	case p.Y > q.Y:
-		return 1
-	}
-	return 0
-}
+func cmpPoint(p, q geom.Point) int { return cmp.Or(cmp.Compare(p.X, q.X), cmp.Compare(p.Y, q.Y)) }
 
 func toRing(r []ipt) geom.Ring {
 	out := make(geom.Ring, len(r))

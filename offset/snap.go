@@ -1,6 +1,7 @@
 package offset
 
 import (
+	"cmp"
 	"math"
 	"math/bits"
 
@@ -26,19 +27,7 @@ func (p ipt) point() geom.Point {
 
 func (p ipt) less(q ipt) bool { return p.x < q.x || (p.x == q.x && p.y < q.y) }
 
-func cmpIpt(p, q ipt) int {
-	switch {
-	case p.x < q.x:
-		return -1
-	case p.x > q.x:
-		return 1
-	case p.y < q.y:
-		return -1
-	case p.y > q.y:
-		return 1
-	}
-	return 0
-}
+func cmpIpt(p, q ipt) int { return cmp.Or(cmp.Compare(p.x, q.x), cmp.Compare(p.y, q.y)) }
 
 // i128 is a signed 128-bit integer in two's complement.
 type i128 struct {
