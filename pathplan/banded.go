@@ -277,7 +277,8 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	if comp.zones != nil {
 		return bandedZoned(ctx, b, job, comp, comp.zones, z, levelTop, clear, st, sum)
 	}
-	g := newBandedGrid(comp.c, st.h)
+	g := newBandedGridPad(comp.c, st.h, st.r+2*st.h)
+	g.initStock(job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
@@ -341,6 +342,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 			return errors.New("no entry fits: the domain is narrower than a helix of a tenth of the tool radius")
 		}
 		g.markDisk(c, hr)
+		g.stampDisk(c, hr)
 		circ := geom.Circle(c, hr, max(24, int(2*math.Pi*hr/st.h)))
 		// Clockwise, material outside on the left.
 		pts := append(circ.Reversed(), circ.Reversed()[0])

@@ -3,7 +3,6 @@ package pathplan
 import (
 	"container/heap"
 	"math"
-	"sort"
 
 	"github.com/chipband/chipband/geom"
 )
@@ -24,6 +23,9 @@ type bandedGrid struct {
 	bfsGen    []uint32
 	gen       uint32
 	walls     *bandedWalls // the domain outline, for exact link checks
+	// stock is the material of the level, shared by the grids of one
+	// domain part's bays; nil: fronts step from the previous front alone.
+	stock *bandedStock
 }
 
 // bandedWalls is the outline of a tool-centre domain in buckets, so that a
@@ -110,12 +112,17 @@ func (w *bandedWalls) crosses(a, b geom.Point) bool {
 
 // newBandedGrid rasterises the domain c with node spacing h.
 func newBandedGrid(c geom.Shape, h float64) *bandedGrid {
+	return newBandedGridPad(c, h, 2*h)
+}
+
+// newBandedGridPad rasterises the domain c with node spacing h on a raster
+// that reaches pad beyond c's bounds (room for the material around it).
+func newBandedGridPad(c geom.Shape, h, pad float64) *bandedGrid {
 	b := c.Bounds()
-	g := &bandedGrid{h: h, x0: b.Min.X - 2*h, y0: b.Min.Y - 2*h, walls: newBandedWalls(c, math.Max(1, 8*h))}
-	g.nx = int(math.Ceil(b.Width()/h)) + 5
-	g.ny = int(math.Ceil(b.Height()/h)) + 5
+	g := &bandedGrid{h: h, x0: b.Min.X - pad, y0: b.Min.Y - pad, walls: newBandedWalls(c, math.Max(1, 8*h))}
+	g.nx = int(math.Ceil((b.Width()+2*pad)/h)) + 1
+	g.ny = int(math.Ceil((b.Height()+2*pad)/h)) + 1
 	n := g.nx * g.ny
-	g.in = make([]bool, n)
 	g.reached = make([]bool, n)
 	g.t = make([]float64, n)
 	g.src = make([]int32, n)
@@ -123,28 +130,7 @@ func newBandedGrid(c geom.Shape, h float64) *bandedGrid {
 		g.t[i] = math.Inf(1)
 		g.src[i] = -1
 	}
-	rings := c.Rings()
-	var xs []float64
-	for j := 0; j < g.ny; j++ {
-		y := g.y0 + float64(j)*h
-		xs = xs[:0]
-		for _, r := range rings {
-			for k := range r {
-				a, bb := r[k], r[(k+1)%len(r)]
-				if (a.Y <= y) != (bb.Y <= y) {
-					xs = append(xs, a.X+(y-a.Y)*(bb.X-a.X)/(bb.Y-a.Y))
-				}
-			}
-		}
-		sort.Float64s(xs)
-		for k := 0; k+1 < len(xs); k += 2 {
-			i0 := int(math.Ceil((xs[k] - g.x0) / h))
-			i1 := int(math.Floor((xs[k+1] - g.x0) / h))
-			for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
-				g.in[j*g.nx+i] = true
-			}
-		}
-	}
+	g.in = scanFill(c, g.x0, g.y0, h, g.nx, g.ny)
 	return g
 }
 
@@ -198,13 +184,20 @@ type spiralSeg struct {
 // distParam returns the distance from p to the segment and the parameter
 // of the nearest point.
 func (s spiralSeg) distParam(p geom.Point) (float64, float64) {
-	ab := s.b.Sub(s.a)
-	l2 := ab.Dot(ab)
+	abx, aby := s.b.X-s.a.X, s.b.Y-s.a.Y
+	px, py := p.X-s.a.X, p.Y-s.a.Y
+	l2 := abx*abx + aby*aby
 	t := 0.0
 	if l2 > 0 {
-		t = math.Max(0, math.Min(1, p.Sub(s.a).Dot(ab)/l2))
+		t = (px*abx + py*aby) / l2
+		if t < 0 {
+			t = 0
+		} else if t > 1 {
+			t = 1
+		}
 	}
-	return p.Dist(s.a.Add(ab.Scale(t))), t
+	dx, dy := px-t*abx, py-t*aby
+	return math.Sqrt(dx*dx + dy*dy), t
 }
 
 type nodeHeap struct {
@@ -312,6 +305,11 @@ func (g *bandedGrid) value(k int, segs []spiralSeg, far float64) float64 {
 	s := segs[g.src[k]]
 	_, tp := s.distParam(g.pt(k))
 	step := s.sa + (s.sb-s.sa)*tp
+	if g.stock != nil {
+		// The tool centre at k bites r − d into the uncut material at
+		// distance d (see bandedStock).
+		return (g.stock.r - step) - g.matDist(k)
+	}
 	return g.t[k] - step
 }
 
@@ -346,6 +344,11 @@ func (g *bandedGrid) contours(segs []spiralSeg, far float64) [][]geom.Point {
 			k00 := j*g.nx + i
 			k10, k01, k11 := k00+1, k00+g.nx, k00+g.nx+1
 			if !g.in[k00] || !g.in[k10] || !g.in[k01] || !g.in[k11] {
+				continue
+			}
+			if g.stock != nil && (g.unknown(k00) || g.unknown(k10) || g.unknown(k01) || g.unknown(k11)) {
+				// The field is not known beyond the propagation: a zero
+				// there would be a front in cleared space.
 				continue
 			}
 			v00, v10 := g.value(k00, segs, far), g.value(k10, segs, far)
@@ -477,6 +480,10 @@ func (g *bandedGrid) contours(segs []spiralSeg, far float64) [][]geom.Point {
 	return out
 }
 
+// unknown reports whether node k lies beyond the last propagation and is
+// not swept: its front field is not known.
+func (g *bandedGrid) unknown(k int) bool { return g.src[k] < 0 && !g.reached[k] }
+
 // sweepReached marks as reached the touched nodes inside the new front.
 func (g *bandedGrid) sweepReached(segs []spiralSeg) {
 	for _, k := range g.touched {
@@ -490,5 +497,62 @@ func (g *bandedGrid) sweepReached(segs []spiralSeg) {
 // the nearest node is in the domain and swept.
 func (g *bandedGrid) clearAt(p geom.Point) bool {
 	k := g.node(p)
-	return k >= 0 && g.in[k] && g.reached[k]
+	return k >= 0 && g.in[k] && g.reached[k] && g.free(p)
+}
+
+// free reports whether the tool centred at p bites no more than the
+// stock's allowed bite into uncut material: no uncut node on the circle
+// of radius r − bite about p. Material within that circle that does not
+// reach it would be an isolated chip smaller than the circle; the walls'
+// scallops and the uncut bulk all reach beyond r, so they cross it.
+func (g *bandedGrid) free(p geom.Point) bool {
+	s := g.stock
+	if s == nil {
+		return true
+	}
+	if len(s.ring) == 0 {
+		rho := s.r - s.bite
+		n := max(8, int(math.Ceil(2*math.Pi*rho/(0.7*g.h))))
+		s.ring = make([]geom.Point, n)
+		for i := range s.ring {
+			a := 2 * math.Pi * float64(i) / float64(n)
+			s.ring[i] = geom.Pt(rho*math.Cos(a), rho*math.Sin(a))
+		}
+	}
+	for _, o := range s.ring {
+		i := int(math.Floor((p.X+o.X-g.x0)/g.h + 0.5))
+		j := int(math.Floor((p.Y+o.Y-g.y0)/g.h + 0.5))
+		if i < 0 || j < 0 || i >= g.nx || j >= g.ny {
+			continue
+		}
+		if s.uncut(j*g.nx + i) {
+			return false
+		}
+	}
+	return true
+}
+
+// freeNode is free at node k, remembered: a node once free stays free (cuts
+// only remove material), and a node found not free is asked again only
+// after the next cut.
+func (g *bandedGrid) freeNode(k int) bool {
+	s := g.stock
+	if s == nil {
+		return true
+	}
+	if len(s.freeAt) != len(s.mat) {
+		s.freeAt = make([]uint32, len(s.mat))
+	}
+	switch v := s.freeAt[k]; {
+	case v == math.MaxUint32:
+		return true
+	case v == s.cuts+1:
+		return false
+	}
+	if g.free(g.pt(k)) {
+		s.freeAt[k] = math.MaxUint32
+		return true
+	}
+	s.freeAt[k] = s.cuts + 1
+	return false
 }

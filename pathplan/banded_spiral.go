@@ -22,6 +22,9 @@ const (
 type bandedPiece struct {
 	kind bandedPieceKind
 	pts  []geom.Point
+	// model, when set, is what the fronts take the piece to have cut
+	// instead of pts (see spiralGrow's spiral transitions).
+	model []geom.Point
 }
 
 // spiralParams are the inputs of one front growth.
@@ -89,6 +92,9 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			continue
 		}
 		g.propagate(segs, p.maxStep+3*p.h)
+		if g.stock != nil {
+			g.materialDistance()
+		}
 		raw := g.contours(segs, p.maxStep+3*p.h)
 		var fronts []spiralFront
 		for _, pts := range raw {
@@ -103,6 +109,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			continue
 		}
 		older, recent = nil, nil
+		stamped := len(out)
 		for _, f := range prev {
 			if !f.closed {
 				older = append(older, f.pts)
@@ -149,14 +156,14 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 				pts = spiralLeadIn(pts, prev, math.Min(p.r, 0.3*polyLen(pts)), 2*p.maxStep+2*p.h)
 				bd = pts[0].Dist(pos)
 			}
-			var turn []geom.Point
+			var turn, model []geom.Point
 			if !f.closed && !(lastClosed && bd <= 2*p.maxStep+2*p.h) {
 				turn = spiralTurn(g, recent, older, pts, p)
 			}
 			switch {
 			case turn != nil:
 				if d := pos.Dist(turn[0]); d > 1e-6 {
-					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) && (g.walls == nil || !g.walls.crosses(pos, turn[0])) {
+					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) && (g.walls == nil || !g.walls.crosses(pos, turn[0])) && linkFree(g, pos, turn[0], p.maxStep+2*p.h) {
 						out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{pos, turn[0]}})
 					} else {
 						out = append(out, spiralLink(g, pos, turn[0], p)...)
@@ -166,15 +173,28 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			case lastClosed && f.closed && bd <= 2*p.maxStep+2*p.h:
 				// Spiral transition: bend the start of the new loop onto
 				// the end of the last one so the machine does not stop.
-				pts = spiralBlend(pts, pos, math.Min(6*p.r, 0.3*polyLen(pts)))
+				// The fronts take the loop as cut (model): the wedge the
+				// bend leaves is a step's width at most and the next loop
+				// takes it, where fronts that followed the bend would
+				// carry a dent round after round.
+				model = pts
+				pts = spiralBlend(pts, pos, math.Min(2*p.r, 0.3*polyLen(pts)))
 			case bd > 1e-6:
 				out = append(out, spiralLink(g, pos, pts[0], p)...)
 			}
-			out = append(out, bandedPiece{kind: pieceCut, pts: pts})
+			out = append(out, bandedPiece{kind: pieceCut, pts: pts, model: model})
 			pos = pts[len(pts)-1]
 			lastClosed = f.closed
 			if !f.closed {
 				recent = append(recent, pts)
+			}
+		}
+		for _, pc := range out[stamped:] {
+			switch {
+			case pc.model != nil:
+				g.stampPath(pc.model)
+			case pc.kind != pieceLift:
+				g.stampPath(pc.pts)
 			}
 		}
 		g.sweepReached(segs)
@@ -320,6 +340,9 @@ func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geo
 // the neighbour pass and ends at next's start.
 func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p spiralParams) []geom.Point {
 	step := p.r * (1 - math.Cos(p.phi))
+	// The drift crosses onto next at angle atan(step/l); the engaged
+	// arc grows by about that angle over a straight cut of the same
+	// width, so l keeps it under 10° (elementary geometry).
 	l := math.Max(2*step, 0.8)
 	if polyLen(next) < 3*l {
 		return nil
@@ -478,7 +501,7 @@ func nearestReached(g *bandedGrid, p geom.Point) geom.Point {
 					continue
 				}
 				k := j*g.nx + i
-				if g.in[k] && g.reached[k] {
+				if g.in[k] && g.reached[k] && g.freeNode(k) {
 					if d := g.pt(k).Dist(p); d < bd {
 						best, bd = k, d
 					}
@@ -507,6 +530,22 @@ func linkClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
 	return linkNodesClear(g, a, b, slack) && (g.walls == nil || !g.walls.crosses(a, b))
 }
 
+// linkFree reports whether the tool bites no more than the allowed depth
+// into uncut material along the segment ab, ends excepted within slack.
+func linkFree(g *bandedGrid, a, b geom.Point, slack float64) bool {
+	if g.stock == nil {
+		return true
+	}
+	n := int(math.Ceil(a.Dist(b)/(0.5*g.h))) + 1
+	for i := 0; i <= n; i++ {
+		q := a.Lerp(b, float64(i)/float64(n))
+		if q.Dist(a) > slack && q.Dist(b) > slack && !g.free(q) {
+			return false
+		}
+	}
+	return true
+}
+
 // linkNodesClear is linkClear on the node raster alone.
 func linkNodesClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
 	l := a.Dist(b)
@@ -530,12 +569,24 @@ func linkNodesClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
 // gridPath finds a path of swept nodes from a to b (breadth-first, eight
 // neighbours) and shortens it to the fewest clear straight legs.
 func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
+	if len(g.bfsPrev) != len(g.in) {
+		g.bfsPrev = make([]int32, len(g.in))
+		g.bfsGen = make([]uint32, len(g.in))
+	}
+	g.gen++
+	gen := g.gen
 	ok := func(k int) bool {
 		if !g.in[k] {
 			return false
 		}
 		q := g.pt(k)
-		return g.reached[k] || q.Dist(a) <= slack || q.Dist(b) <= slack
+		if q.Dist(a) <= slack || q.Dist(b) <= slack {
+			return true
+		}
+		if !g.reached[k] {
+			return false
+		}
+		return g.freeNode(k)
 	}
 	near := func(p geom.Point) int {
 		k0 := g.node(p)
@@ -566,12 +617,6 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 	if ka < 0 || kb < 0 {
 		return nil
 	}
-	if len(g.bfsPrev) != len(g.in) {
-		g.bfsPrev = make([]int32, len(g.in))
-		g.bfsGen = make([]uint32, len(g.in))
-	}
-	g.gen++
-	gen := g.gen
 	prev := g.bfsPrev
 	seen := func(k int) bool { return g.bfsGen[k] == gen }
 	mark := func(k, from int) { g.bfsGen[k] = gen; prev[k] = int32(from) }

@@ -60,7 +60,7 @@ func bandedSplit(ctx context.Context, comp bandedComp, st bandedSettings, tol fl
 // bandedMask returns a grid over the same raster as g whose domain is the
 // nodes of g inside reg, with the swept nodes of g carried over.
 func bandedMask(g *bandedGrid, reg geom.Region) *bandedGrid {
-	m := &bandedGrid{x0: g.x0, y0: g.y0, h: g.h, nx: g.nx, ny: g.ny, walls: g.walls}
+	m := &bandedGrid{x0: g.x0, y0: g.y0, h: g.h, nx: g.nx, ny: g.ny, walls: g.walls, stock: g.stock}
 	n := len(g.in)
 	m.in = make([]bool, n)
 	m.reached = make([]bool, n)
@@ -135,7 +135,8 @@ func bandedDiskFront(c geom.Point, rad float64, p spiralParams) spiralFront {
 // pass along the walls of the whole part takes the cusps of loops and
 // fronts.
 func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zones *offset.Zones, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
-	g := newBandedGrid(comp.c, st.h)
+	g := newBandedGridPad(comp.c, st.h, st.r+2*st.h)
+	g.initStock(job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly, noBoundary: true}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
@@ -201,6 +202,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 			return errors.New("no entry fits: the widest bay is narrower than a helix of a tenth of the tool radius")
 		}
 		grids[first].markDisk(bay.Deepest, hr)
+		g.stampDisk(bay.Deepest, hr)
 		f := bandedDiskFront(bay.Deepest, hr, p)
 		start = []spiralFront{f}
 		pos = f.pts[0]
@@ -235,6 +237,15 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 				g.reached[k] = true
 			}
 		}
+	}
+	// add appends pieces cut outside the fronts and records them as cut.
+	add := func(pcs ...bandedPiece) {
+		for _, pc := range pcs {
+			if pc.kind != pieceLift {
+				g.stampPath(pc.pts)
+			}
+		}
+		pieces = append(pieces, pcs...)
 	}
 	var clearBay func(i int, start []spiralFront) error
 	clearBay = func(i int, start []spiralFront) error {
@@ -279,9 +290,9 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 					// own helix (the wall pass takes the throat).
 					if len(run.pts) >= 2 {
 						if d := pos.Dist(run.pts[0]); d > 1e-6 {
-							pieces = append(pieces, spiralLink(g, pos, run.pts[0], p)...)
+							add(spiralLink(g, pos, run.pts[0], p)...)
 						}
-						pieces = append(pieces, bandedPiece{kind: pieceTrochoid, pts: run.pts})
+						add(bandedPiece{kind: pieceTrochoid, pts: run.pts})
 						sum.Rings++
 						for k, c := range run.centres {
 							g.markDisk(c, run.rts[k])
@@ -296,6 +307,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 					bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 					pieces = nil
 					grids[other].markDisk(bay.Deepest, hr)
+					g.stampDisk(bay.Deepest, hr)
 					f := bandedDiskFront(bay.Deepest, hr, p)
 					pos = f.pts[0]
 					b.rapid(p3(b.pos.XY(), clear))
@@ -312,9 +324,9 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 					continue
 				}
 				if d := pos.Dist(run.pts[0]); d > 1e-6 {
-					pieces = append(pieces, spiralLink(g, pos, run.pts[0], p)...)
+					add(spiralLink(g, pos, run.pts[0], p)...)
 				}
-				pieces = append(pieces, bandedPiece{kind: pieceTrochoid, pts: run.pts})
+				add(bandedPiece{kind: pieceTrochoid, pts: run.pts})
 				sum.Rings++
 				for k, c := range run.centres {
 					g.markDisk(c, run.rts[k])
@@ -328,7 +340,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 							back = append(back, run.centres[k])
 						}
 						back = append(back, run.centres[0])
-						pieces = append(pieces, bandedPiece{kind: pieceLink, pts: back})
+						add(bandedPiece{kind: pieceLink, pts: back})
 						pos = back[len(back)-1]
 					}
 					continue

@@ -1,0 +1,482 @@
+package pathplan
+
+import (
+	"math"
+	"sort"
+
+	"github.com/chipband/chipband/geom"
+)
+
+// bandedStock is the material of one level on the node raster of a
+// bandedGrid: which nodes hold material the tool must remove, how far each
+// lies from the tool-centre path cut so far, and the scratch of the
+// distance-to-material field from which the next front is taken.
+//
+// The fronts of the banded strategy are contours of that field: the next
+// pass runs where the uncut material lies r − s from the tool centre, so
+// the tool bites s into it (s the local step of the front; on a straight
+// front ae = s exactly, elementary geometry). Measuring the distance to the
+// material that is actually left, rather than to the previous pass, takes
+// in the scallops a pass leaves where it meets a wall at a slant and the
+// material between fronts that meet, which a step from the previous pass
+// alone runs into head-on.
+type bandedStock struct {
+	r float64
+	// bite is the depth a link may take into uncut material, mm.
+	bite float64
+	mat  []bool    // node holds material of the level within reach of the tool
+	air  []bool    // node lies outside the stock
+	cl   []float32 // distance to the nearest tool-centre point cut so far; > r: uncut
+	// cuts counts the stamped paths; freeAt remembers free per node
+	// (MaxUint32: free; cuts+1: not free since that many cuts).
+	cuts   uint32
+	freeAt []uint32
+	ring   []geom.Point // the circle free tests, about the origin
+
+	// Scratch of one distance query.
+	dm    []float32 // distance to uncut material, where dgen == gen
+	dsrc  []int32   // seed nearest to the node
+	dgen  []uint32
+	gen   uint32
+	seeds []geom.Point
+	heap  floatHeap
+	// Buckets of side bs nodes that a query covers.
+	bs, bnx, bny int
+	bmark        []uint32
+	blist        []int32
+}
+
+// floatHeap is a binary min-heap of nodes by distance.
+type floatHeap struct {
+	k []int32
+	d []float32
+}
+
+func (q *floatHeap) push(k int32, d float32) {
+	q.k = append(q.k, k)
+	q.d = append(q.d, d)
+	i := len(q.k) - 1
+	for i > 0 {
+		p := (i - 1) / 2
+		if q.d[p] <= q.d[i] {
+			break
+		}
+		q.k[p], q.k[i] = q.k[i], q.k[p]
+		q.d[p], q.d[i] = q.d[i], q.d[p]
+		i = p
+	}
+}
+
+func (q *floatHeap) pop() (int32, float32) {
+	k, d := q.k[0], q.d[0]
+	n := len(q.k) - 1
+	q.k[0], q.d[0] = q.k[n], q.d[n]
+	q.k, q.d = q.k[:n], q.d[:n]
+	i := 0
+	for {
+		l, r, m := 2*i+1, 2*i+2, i
+		if l < n && q.d[l] < q.d[m] {
+			m = l
+		}
+		if r < n && q.d[r] < q.d[m] {
+			m = r
+		}
+		if m == i {
+			break
+		}
+		q.k[m], q.k[i] = q.k[i], q.k[m]
+		q.d[m], q.d[i] = q.d[i], q.d[m]
+		i = m
+	}
+	return k, d
+}
+
+// initStock sets up the material of the level on g's raster: every node
+// inside stock (the stock outline) within r of the tool-centre domain (a
+// little less, so that the walls themselves never count as material).
+// bite is the depth a link may take into uncut material.
+func (g *bandedGrid) initStock(stock geom.Shape, r, bite float64) {
+	n := g.nx * g.ny
+	s := &bandedStock{r: r, bite: bite, mat: make([]bool, n), cl: make([]float32, n)}
+	s.air = scanFill(stock, g.x0, g.y0, g.h, g.nx, g.ny)
+	for k := range s.air {
+		s.air[k] = !s.air[k]
+	}
+	inf := float32(math.Inf(1))
+	for k := range s.cl {
+		s.cl[k] = inf
+	}
+	// Distance outward from the domain's edge nodes (a vector distance
+	// sweep, as in propagate).
+	reach := r - 0.25*g.h
+	d := make([]float32, n)
+	src := make([]int32, n)
+	for k := range d {
+		d[k] = inf
+		src[k] = -1
+	}
+	var q floatHeap
+	for k, in := range g.in {
+		if !in {
+			continue
+		}
+		if !s.air[k] {
+			s.mat[k] = true
+		}
+		i, j := k%g.nx, k/g.nx
+		edge := false
+		for _, o := range [4][2]int{{1, 0}, {-1, 0}, {0, 1}, {0, -1}} {
+			ii, jj := i+o[0], j+o[1]
+			if ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny || !g.in[jj*g.nx+ii] {
+				edge = true
+				break
+			}
+		}
+		if edge {
+			d[k], src[k] = 0, int32(k)
+			q.push(int32(k), 0)
+		}
+	}
+	for len(q.k) > 0 {
+		k, dk := q.pop()
+		if dk > d[k] {
+			continue
+		}
+		sp := g.pt(int(src[k]))
+		i, j := int(k)%g.nx, int(k)/g.nx
+		for dj := -1; dj <= 1; dj++ {
+			for di := -1; di <= 1; di++ {
+				ii, jj := i+di, j+dj
+				if (di == 0 && dj == 0) || ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny {
+					continue
+				}
+				kk := jj*g.nx + ii
+				if g.in[kk] {
+					continue
+				}
+				nd := float32(g.pt(kk).Dist(sp))
+				nd = max(nd, dk)
+				if nd < d[kk] && float64(nd) <= reach {
+					d[kk], src[kk] = nd, src[k]
+					q.push(int32(kk), nd)
+				}
+			}
+		}
+	}
+	for k := range d {
+		if !g.in[k] && d[k] < inf && !s.air[k] {
+			s.mat[k] = true
+		}
+	}
+	s.dm = make([]float32, n)
+	s.dsrc = make([]int32, n)
+	s.dgen = make([]uint32, n)
+	s.bs = max(1, int(math.Ceil(r/g.h)))
+	s.bnx = (g.nx + s.bs - 1) / s.bs
+	s.bny = (g.ny + s.bs - 1) / s.bs
+	s.bmark = make([]uint32, s.bnx*s.bny)
+	g.stock = s
+}
+
+// scanFill returns, for the raster with origin (x0, y0), spacing h and
+// nx × ny nodes, which nodes lie inside c (even–odd rule on its rings).
+func scanFill(c geom.Shape, x0, y0, h float64, nx, ny int) []bool {
+	in := make([]bool, nx*ny)
+	rings := c.Rings()
+	var xs []float64
+	for j := 0; j < ny; j++ {
+		y := y0 + float64(j)*h
+		xs = xs[:0]
+		for _, r := range rings {
+			for k := range r {
+				a, bb := r[k], r[(k+1)%len(r)]
+				if (a.Y <= y) != (bb.Y <= y) {
+					xs = append(xs, a.X+(y-a.Y)*(bb.X-a.X)/(bb.Y-a.Y))
+				}
+			}
+		}
+		sort.Float64s(xs)
+		for k := 0; k+1 < len(xs); k += 2 {
+			i0 := int(math.Ceil((xs[k] - x0) / h))
+			i1 := int(math.Floor((xs[k+1] - x0) / h))
+			for i := max(i0, 0); i <= i1 && i < nx; i++ {
+				in[j*nx+i] = true
+			}
+		}
+	}
+	return in
+}
+
+// stampPath records the polyline pts as cut: every node within the tool
+// radius of it is cut, and the distances of the nodes just beyond are
+// kept, so the edge of the cut is known between nodes. Nodes deep inside
+// the previous segment's sweep are cut already and skipped, which keeps the
+// work per segment to the strip its sweep adds.
+func (g *bandedGrid) stampPath(pts []geom.Point) {
+	if g.stock == nil || len(pts) == 0 {
+		return
+	}
+	g.stock.cuts++
+	if len(pts) == 1 {
+		g.stampSeg(pts[0], pts[0], nil)
+		return
+	}
+	for i := 0; i+1 < len(pts); i++ {
+		var prev *[2]geom.Point
+		if i > 0 {
+			prev = &[2]geom.Point{pts[i-1], pts[i]}
+		}
+		g.stampSeg(pts[i], pts[i+1], prev)
+	}
+}
+
+// stampDisk records a disk of radius rad about c as swept by the tool
+// centre (a helix): every node within rad + r is cut.
+func (g *bandedGrid) stampDisk(c geom.Point, rad float64) {
+	if g.stock == nil {
+		return
+	}
+	s := g.stock
+	s.cuts++
+	R := rad + s.r + 1.5*g.h
+	i0 := max(0, int(math.Floor((c.X-R-g.x0)/g.h)))
+	i1 := min(g.nx-1, int(math.Ceil((c.X+R-g.x0)/g.h)))
+	j0 := max(0, int(math.Floor((c.Y-R-g.y0)/g.h)))
+	j1 := min(g.ny-1, int(math.Ceil((c.Y+R-g.y0)/g.h)))
+	for j := j0; j <= j1; j++ {
+		y := g.y0 + float64(j)*g.h
+		for i := i0; i <= i1; i++ {
+			x := g.x0 + float64(i)*g.h
+			d := float32(math.Max(0, math.Sqrt((x-c.X)*(x-c.X)+(y-c.Y)*(y-c.Y))-rad))
+			if k := j*g.nx + i; d < s.cl[k] {
+				s.cl[k] = d
+			}
+		}
+	}
+}
+
+// capsuleRow returns the x range in which the row at height y meets the
+// points within R of the segment ab (lo > hi: none). The set is convex, so
+// the range is the hull of the end circles' ranges and the strip's.
+func capsuleRow(a, b geom.Point, y, R float64) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, e := range [2]geom.Point{a, b} {
+		if dy := y - e.Y; dy <= R && dy >= -R {
+			w := math.Sqrt(R*R - dy*dy)
+			lo, hi = min(lo, e.X-w), max(hi, e.X+w)
+		}
+	}
+	ab := b.Sub(a)
+	l2 := ab.X*ab.X + ab.Y*ab.Y
+	switch {
+	case l2 == 0:
+	case ab.Y == 0:
+		if dy := y - a.Y; dy <= R && dy >= -R {
+			lo, hi = min(lo, min(a.X, b.X)), max(hi, max(a.X, b.X))
+		}
+	default:
+		l := math.Sqrt(l2)
+		ux, uy := ab.X/l, ab.Y/l
+		// Projection on the segment: ux·(x−ax) + uy·(y−ay) ∈ [0, l].
+		var p0, p1 float64
+		if ux == 0 {
+			if t := uy * (y - a.Y); t < 0 || t > l {
+				return lo, hi
+			}
+			p0, p1 = math.Inf(-1), math.Inf(1)
+		} else {
+			p0 = a.X - uy*(y-a.Y)/ux
+			p1 = a.X + (l-uy*(y-a.Y))/ux
+			if p0 > p1 {
+				p0, p1 = p1, p0
+			}
+		}
+		// Distance from the line: |−uy·(x−ax) + ux·(y−ay)| ≤ R.
+		q0 := a.X + (ux*(y-a.Y)-R)/uy
+		q1 := a.X + (ux*(y-a.Y)+R)/uy
+		if q0 > q1 {
+			q0, q1 = q1, q0
+		}
+		if x0, x1 := max(p0, q0), min(p1, q1); x0 <= x1 {
+			lo, hi = min(lo, x0), max(hi, x1)
+		}
+	}
+	return lo, hi
+}
+
+// stampSeg records the segment ab as cut (see stampPath); prev, when set,
+// is the segment stamped just before, whose inner sweep is skipped.
+func (g *bandedGrid) stampSeg(a, b geom.Point, prev *[2]geom.Point) {
+	s := g.stock
+	// A node beside the cut edge lies within a node spacing of it (the
+	// distance is 1-Lipschitz), so exact distances within r ± h suffice.
+	R := s.r + g.h
+	Rin := s.r - g.h
+	ab := b.Sub(a)
+	l2 := ab.X*ab.X + ab.Y*ab.Y
+	j0 := max(0, int(math.Floor((min(a.Y, b.Y)-R-g.y0)/g.h)))
+	j1 := min(g.ny-1, int(math.Ceil((max(a.Y, b.Y)+R-g.y0)/g.h)))
+	for j := j0; j <= j1; j++ {
+		y := g.y0 + float64(j)*g.h
+		lo, hi := capsuleRow(a, b, y, R)
+		if lo > hi {
+			continue
+		}
+		ci0 := max(0, int(math.Ceil((lo-g.x0)/g.h)))
+		ci1 := min(g.nx-1, int(math.Floor((hi-g.x0)/g.h)))
+		// Nodes within Rin of the previous segment hold cl ≤ Rin already.
+		si0, si1 := 1, 0
+		if prev != nil && Rin > 0 {
+			if plo, phi := capsuleRow(prev[0], prev[1], y, Rin); plo <= phi {
+				si0 = int(math.Ceil((plo - g.x0) / g.h))
+				si1 = int(math.Floor((phi - g.x0) / g.h))
+			}
+		}
+		row := j * g.nx
+		for i := ci0; i <= ci1; i++ {
+			if i >= si0 && i <= si1 {
+				i = si1
+				continue
+			}
+			x := g.x0 + float64(i)*g.h
+			px, py := x-a.X, y-a.Y
+			t := 0.0
+			if l2 > 0 {
+				t = (px*ab.X + py*ab.Y) / l2
+				if t < 0 {
+					t = 0
+				} else if t > 1 {
+					t = 1
+				}
+			}
+			dx, dy := px-t*ab.X, py-t*ab.Y
+			d := float32(math.Sqrt(dx*dx + dy*dy))
+			if d < s.cl[row+i] {
+				s.cl[row+i] = d
+			}
+		}
+	}
+}
+
+// uncut reports whether node k holds material no pass has cut yet.
+func (s *bandedStock) uncut(k int) bool { return s.mat[k] && float64(s.cl[k]) > s.r }
+
+// materialDistance computes, for the nodes g.touched, the distance to the
+// nearest uncut material up to r (r: none within reach), into s.dm: a
+// vector distance sweep from the edge of the uncut material (points
+// interpolated between an uncut node and a cut or air neighbour) through
+// the nodes that hold none, over the buckets within r of a touched node.
+func (g *bandedGrid) materialDistance() {
+	s := g.stock
+	s.gen++
+	if s.gen == 0 {
+		for i := range s.dgen {
+			s.dgen[i] = 0
+		}
+		for i := range s.bmark {
+			s.bmark[i] = 0
+		}
+		s.gen = 1
+	}
+	gen := s.gen
+	s.blist = s.blist[:0]
+	for _, k := range g.touched {
+		bi, bj := int(k)%g.nx/s.bs, int(k)/g.nx/s.bs
+		for dj := -1; dj <= 1; dj++ {
+			for di := -1; di <= 1; di++ {
+				ii, jj := bi+di, bj+dj
+				if ii < 0 || jj < 0 || ii >= s.bnx || jj >= s.bny {
+					continue
+				}
+				if b := jj*s.bnx + ii; s.bmark[b] != gen {
+					s.bmark[b] = gen
+					s.blist = append(s.blist, int32(b))
+				}
+			}
+		}
+	}
+	marked := func(k int) bool {
+		return s.bmark[(k/g.nx/s.bs)*s.bnx+(k%g.nx)/s.bs] == gen
+	}
+	s.seeds = s.seeds[:0]
+	s.heap.k, s.heap.d = s.heap.k[:0], s.heap.d[:0]
+	r := float32(s.r)
+	set := func(k int, d float32, src int32) {
+		s.dm[k], s.dsrc[k], s.dgen[k] = d, src, gen
+		s.heap.push(int32(k), d)
+	}
+	for _, b := range s.blist {
+		bi, bj := int(b)%s.bnx, int(b)/s.bnx
+		for j := bj * s.bs; j < min(g.ny, (bj+1)*s.bs); j++ {
+			for i := bi * s.bs; i < min(g.nx, (bi+1)*s.bs); i++ {
+				k := j*g.nx + i
+				if !s.uncut(k) {
+					continue
+				}
+				for _, o := range [4][2]int{{1, 0}, {-1, 0}, {0, 1}, {0, -1}} {
+					ii, jj := i+o[0], j+o[1]
+					if ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny {
+						continue
+					}
+					kk := jj*g.nx + ii
+					var e geom.Point
+					switch {
+					case s.air[kk]:
+						e = g.pt(k).Lerp(g.pt(kk), 0.5)
+					case s.mat[kk] && s.cl[kk] <= r:
+						// The cut edge lies where the distance to the path
+						// is r, between the two nodes.
+						t := float64((r - s.cl[kk]) / (s.cl[k] - s.cl[kk]))
+						e = g.pt(kk).Lerp(g.pt(k), math.Max(0, math.Min(1, t)))
+					default:
+						continue
+					}
+					src := int32(len(s.seeds))
+					s.seeds = append(s.seeds, e)
+					d := float32(g.pt(kk).Dist(e))
+					if s.dgen[kk] != gen || d < s.dm[kk] {
+						set(kk, d, src)
+					}
+				}
+			}
+		}
+	}
+	for len(s.heap.k) > 0 {
+		k, d := s.heap.pop()
+		if d > s.dm[k] {
+			continue
+		}
+		e := s.seeds[s.dsrc[k]]
+		i, j := int(k)%g.nx, int(k)/g.nx
+		for dj := -1; dj <= 1; dj++ {
+			for di := -1; di <= 1; di++ {
+				ii, jj := i+di, j+dj
+				if (di == 0 && dj == 0) || ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny {
+					continue
+				}
+				kk := jj*g.nx + ii
+				if s.uncut(kk) || !marked(kk) {
+					continue
+				}
+				p := g.pt(kk)
+				nd := max(float32(math.Sqrt((p.X-e.X)*(p.X-e.X)+(p.Y-e.Y)*(p.Y-e.Y))), d)
+				if nd <= r && (s.dgen[kk] != gen || nd < s.dm[kk]) {
+					set(kk, nd, s.dsrc[k])
+				}
+			}
+		}
+	}
+}
+
+// matDist returns the distance from node k to uncut material after
+// materialDistance: 0 on uncut material, r when none lies within reach.
+func (g *bandedGrid) matDist(k int) float64 {
+	s := g.stock
+	if s.uncut(k) {
+		return 0
+	}
+	if s.dgen[k] == s.gen {
+		return float64(s.dm[k])
+	}
+	return s.r
+}
