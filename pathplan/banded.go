@@ -21,8 +21,12 @@ type BandedOptions struct {
 	// GridStep is the node spacing of the front raster, mm; zero picks
 	// about a third of the target radial width.
 	GridStep float64
-	// NoVerify skips the simulation and local repair of the finished path.
-	// The repair step is not built yet, so it changes nothing today.
+	// NoVerify skips the simulation and repair of the finished path. The
+	// repair today is the last resort only: the feed of every move on
+	// which the simulated chip is more than 10 % thicker than the chip
+	// load is lowered to hold it, and Plan.Warnings and the feature
+	// summaries name what was slowed. Extra passes and smaller steps are
+	// not built.
 	NoVerify bool
 	// ClimbOnly keeps every pass in climb milling; by default a pass that
 	// runs from wall to wall may be cut either way, whichever end is nearer,
@@ -109,9 +113,10 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // links through cut material and a last pass along the walls. Fronts grow
 // depth first, so the tool follows one side of a split front to its end;
 // at a wall the tool turns onto the next pass by ramping along the pass
-// beside it. The simulation and local repair of the finished path (see
-// BandedOptions.NoVerify) are not built yet: BandedReport measures the
-// path, and the tests check its engagement figures per feature.
+// beside it. Fronts are contours of the distance to the material left so
+// far (see bandedStock). The finished path is simulated with engage and,
+// where the engagement leaves the band, its feed is lowered to hold the
+// chip load (see BandedOptions.NoVerify); BandedReport measures the path.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
 	if job == nil {
 		return nil, errors.New("banded: no job")
@@ -182,6 +187,11 @@ func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error
 	plan.Path = b.path
 	for i := range plan.Features {
 		plan.Features[i].Length = opLength(&plan.Path, plan.Features[i].First, plan.Features[i].End)
+	}
+	if !opts.NoVerify {
+		if err := bandedRepairFeeds(ctx, plan); err != nil {
+			return nil, fmt.Errorf("banded: verify: %w", err)
+		}
 	}
 	return plan, nil
 }

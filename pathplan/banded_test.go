@@ -144,3 +144,14 @@ func BenchmarkPlanBandedDemo(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkPlanBandedDemoVerified plans the demo with the verification
+// (simulation and feed repair) included.
+func BenchmarkPlanBandedDemoVerified(b *testing.B) {
+	job := DemoJob()
+	for i := 0; i < b.N; i++ {
+		if _, err := PlanBanded(context.Background(), job, BandedOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -28,21 +28,32 @@ func bandedKeep(job *Job) (geom.Shape, error) {
 // on the material left by the features before it, and returns one engage
 // summary per feature.
 func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error) {
+	var out []engage.Summary
+	err := bandedSimEach(ctx, plan, true, func(_ int, res *engage.Result) error {
+		out = append(out, res.Summary)
+		return nil
+	})
+	return out, err
+}
+
+// bandedSimEach simulates the moves of each feature of plan with engage, on
+// the material left by the features before it, and hands each result to
+// each with the feature's index; profile keeps the per-sample profile.
+func bandedSimEach(ctx context.Context, plan *Plan, summaryOnly bool, each func(fi int, res *engage.Result) error) error {
 	job := plan.Job
 	tool := engage.Tool{Diameter: job.Tool.Diameter, FluteLength: job.Tool.FluteLength, Flutes: job.Tool.Flutes}
 	m, err := engage.NewMaterial(job.Stock.Outline, job.Stock.Top, engage.MaterialOptions{})
 	if err != nil {
-		return nil, fmt.Errorf("simulate: %w", err)
+		return fmt.Errorf("simulate: %w", err)
 	}
 	keep, err := bandedKeep(job)
 	if err != nil {
-		return nil, err
+		return err
 	}
 	band := job.Cut.Band
 	if band[1] <= 0 {
 		band = defaultBand
 	}
-	var out []engage.Summary
 	for fi, fs := range plan.Features {
 		start := plan.Path.Start
 		if fs.First > 0 {
@@ -52,7 +63,7 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 		f := job.Features[fi]
 		tgt, err := geom.Intersection(f.Region, job.Stock.Outline)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		targets := []engage.Target{{Name: f.Name, Region: tgt, Floor: job.Stock.Top - f.Depth}}
 		if reach, err := bandedReachable(job, f, tgt); err == nil {
@@ -63,14 +74,16 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 			SpindleRPM:  job.Cut.SpindleRPM,
 			Keep:        keep,
 			Targets:     targets,
-			SummaryOnly: true,
+			SummaryOnly: summaryOnly,
 		})
 		if err != nil {
-			return nil, fmt.Errorf("simulate feature %q: %w", f.Name, err)
+			return fmt.Errorf("simulate feature %q: %w", f.Name, err)
 		}
-		out = append(out, res.Summary)
+		if err := each(fi, res); err != nil {
+			return err
+		}
 	}
-	return out, nil
+	return nil
 }
 
 // bandedReachable returns the part of target tgt of feature f that the

@@ -62,6 +62,12 @@ type FeatureSummary struct {
 	Lifts   int `json:"lifts"`
 	// Length is the path length of the feature's operation, mm.
 	Length float64 `json:"length_mm"`
+	// SlowedMoves and SlowedLength count the moves, and their length in
+	// mm, whose feed the banded verification lowered because the
+	// simulated chip was thicker than the chip load (see
+	// BandedOptions.NoVerify).
+	SlowedMoves  int     `json:"slowed_moves,omitempty"`
+	SlowedLength float64 `json:"slowed_mm,omitempty"`
 	// First and End delimit the feature's moves in Path.Moves.
 	First int `json:"-"`
 	End   int `json:"-"`

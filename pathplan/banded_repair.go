@@ -1,0 +1,74 @@
+package pathplan
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
+)
+
+// bandedRepairFeeds is the last resort of the banded verification: it
+// simulates the finished plan with engage, feature by feature, and on every
+// cutting move where the simulated engagement leaves the band (ae/D above
+// 1.1 × its maximum, the upper edge the in-band share counts) and the
+// largest chip (engage's h_max = fz·sin of the largest immersion angle met,
+// Altintas 2012, ch. 2, from memory) exceeds the chip load, lowers the feed
+// so that the chip equals the chip load again. The feed is only ever
+// lowered; within the band the feed stays the one set for the target. It records per feature
+// the moves and length slowed and adds a warning naming them; the report
+// and the G-code carry the lowered feeds.
+//
+// The other repairs (an extra pass ahead of an overload, a smaller step)
+// are not built: where the band is exceeded, the feed is what changes.
+func bandedRepairFeeds(ctx context.Context, plan *Plan) error {
+	job := plan.Job
+	load := job.Cut.ChipLoad
+	if !(load > 0) || !(job.Cut.SpindleRPM > 0) || job.Tool.Flutes <= 0 {
+		return nil // no chip load to hold
+	}
+	over := bandedOverLimit(job)
+	return bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
+		fs := &plan.Features[fi]
+		worst := map[int]float64{} // move index in the feature → largest h_max out of band
+		for _, smp := range res.Profile {
+			if smp.Class != engage.Cut || smp.AE <= over*job.Tool.Diameter {
+				continue
+			}
+			if smp.HMax > worst[smp.Move] {
+				worst[smp.Move] = smp.HMax
+			}
+		}
+		from := plan.Path.Start
+		if fs.First > 0 {
+			from = plan.Path.Moves[fs.First-1].To
+		}
+		for i := fs.First; i < fs.End; i++ {
+			mv := &plan.Path.Moves[i]
+			h := worst[i-fs.First]
+			if (mv.Kind == geom.Feed || mv.Kind == geom.Link) && h > load && mv.Feed > 0 {
+				mv.Feed *= load / h
+				fs.SlowedMoves++
+				fs.SlowedLength += geom.MoveLength(from, *mv)
+			}
+			from = mv.To
+		}
+		if fs.SlowedMoves > 0 {
+			plan.Warnings = append(plan.Warnings, fmt.Sprintf(
+				"feature %q: feed lowered on %d moves (%.0f mm of %.0f mm) where the simulated engagement leaves the band and the chip would be thicker than the chip load",
+				fs.Name, fs.SlowedMoves, fs.SlowedLength, fs.Length))
+		}
+		return nil
+	})
+}
+
+// bandedOverLimit returns the ae/D above which the banded verification
+// counts a sample out of band: 1.1 × the band maximum, the upper edge of
+// the in-band share (issue figures).
+func bandedOverLimit(job *Job) float64 {
+	band := job.Cut.Band
+	if band[1] <= 0 {
+		band = defaultBand
+	}
+	return 1.1 * band[1]
+}
