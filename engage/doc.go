@@ -34,10 +34,17 @@
 //     (4 more bytes a cell), not done.
 //   - Ramps and helices: the cut distance of a cell is the one of the last
 //     stretch that lowered it, which may be shorter than the distance to
-//     the whole path; a wall the tool only touches (the outer wall or core
-//     of a helix bore) can then read as material, and ap of such samples
-//     as the depth below the top rather than the step down (about one
-//     steady helix sample in eight; TestHelixSteadyAP, skipped).
+//     the whole path, and a cell a helix lowers by one revolution keeps only
+//     the cut distance of the lower revolution. For the levels above it the
+//     field then shows material next to a wall the tool only touches (the
+//     outer wall or core of a helix bore). ap therefore takes a higher level
+//     only where the point is in material for any cut distance the
+//     neighbouring material cells allow (the field is 1-Lipschitz), so such
+//     a wall no longer reads as ap = depth below the top (it did on about
+//     one steady helix sample in eight). The price is on the low side: a
+//     point within a cell of two levels reads the lower one, and ap comes
+//     from the next points of the arc (TestHelixSteadyAP: within the floor
+//     drop over one cell diagonal).
 //
 // # Simulation
 //

@@ -417,7 +417,8 @@ func (m *Material) field(x, y float64, zt float32) (v, hmax, hlo float32) {
 // topAt returns the top of the material at (x, y), a point known to be in
 // material at tool height zt, when the cells around it hold material of
 // different heights between lo and hi: the highest level at which the
-// point itself is still inside material by the sub-cell field.
+// point itself is still surely inside material by the sub-cell field (see
+// sureField).
 func (m *Material) topAt(x, y float64, zt, lo, hi, tol float32) float32 {
 	gx := (x-m.x0)*m.inv - 0.5
 	gy := (y-m.y0)*m.inv - 0.5
@@ -428,7 +429,7 @@ func (m *Material) topAt(x, y float64, zt, lo, hi, tol float32) float32 {
 	hs := [4]float32{m.c[k].h, m.c[k+1].h, m.c[k+m.nx].h, m.c[k+m.nx+1].h}
 	h := hi
 	for {
-		v, _, _ := m.field(x, y, h-2*epsZ)
+		v := m.sureField(gx, gy, h-2*epsZ)
 		if v+tol < 0 || h <= lo {
 			return h
 		}
@@ -441,6 +442,64 @@ func (m *Material) topAt(x, y float64, zt, lo, hi, tol float32) float32 {
 		}
 		h = next
 	}
+}
+
+// sureField interpolates the boundary field at level zt (positive where
+// there is no material) at grid coordinates (gx, gy) (cell units from the
+// first cell centre, inside the grid), taking each cut cell as cut as far
+// as its material neighbours allow.
+//
+// A cell lowered below zt keeps in a the cut distance of the cut that
+// lowered it last, which is only a lower bound of its distance into the
+// region cut below zt when an earlier, higher cut reached farther (a helix
+// revolution below the one before it, a slot below a wider pocket): the
+// field then puts material at zt where there is none, by up to a cell.
+// The field r − d is 1-Lipschitz (d a distance), and a material cell y
+// keeps in b that value for the passes below it, so a cut cell x is inside
+// the cut by at most b(y) + |x − y| (elementary geometry: the triangle
+// inequality). sureField takes for each cut cell the larger of a and the
+// least such bound over the material cells of the 2 × 2 block, so that a
+// point it puts in material is in material for any cut history the cells
+// allow. topAt uses it to take ap only from material that is surely there.
+func (m *Material) sureField(gx, gy float64, zt float32) float32 {
+	i, j := int(gx), int(gy)
+	fx, fy := float32(gx-float64(i)), float32(gy-float64(j))
+	k := j*m.nx + i
+	cs := [4]*cell{&m.c[k], &m.c[k+1], &m.c[k+m.nx], &m.c[k+m.nx+1]}
+	var v [4]float32
+	var solid [4]bool
+	for q, c := range cs {
+		if c.h > zt {
+			v[q], solid[q] = c.b, true
+		} else {
+			v[q] = c.a
+		}
+	}
+	side, diag := float32(m.cell), float32(m.cell*math.Sqrt2)
+	var w [4]float32
+	for q := range cs {
+		w[q] = v[q]
+		if solid[q] {
+			continue
+		}
+		ub := float32(math.Inf(1))
+		for y := range cs {
+			if !solid[y] {
+				continue
+			}
+			dist := side
+			if q^y == 3 { // 0–3 and 1–2 are the diagonals of the block
+				dist = diag
+			}
+			ub = min(ub, v[y]+dist)
+		}
+		if !math.IsInf(float64(ub), 1) {
+			w[q] = max(v[q], ub)
+		}
+	}
+	v0 := w[0] + (w[1]-w[0])*fx
+	v1 := w[2] + (w[3]-w[2])*fx
+	return v0 + (v1-v0)*fy
 }
 
 // Residual is what is left of a target region after cutting.
