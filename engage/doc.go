@@ -59,7 +59,12 @@
 // Wall and floor gouges are measured from the geometry of the path against
 // the Keep shape and the target regions (exact distances from the
 // tool-centre lines and arcs to their edges, through a bucket index), not
-// from the grid; the grid serves material removal and engagement.
+// from the grid; the grid serves material removal and engagement. A rapid
+// below the top that the grid flags is reported only when the tool disk
+// surely overlaps material still there: a material cell centre inside the
+// disk, or a periphery point outside every disk that the cut distances of
+// the cells around it prove cut (the grid alone can put a wall up to a cell
+// off after cuts at several levels; TestRapidBesideWall).
 //
 // Units: millimetres, mm/min for feeds, rpm for spindle speed, radians for
 // angles unless a name says degrees, mm³/min for material-removal rates,

@@ -413,3 +413,101 @@ func (m *Material) diskMaterial(c geom.Point, z, r float64) (area, above float64
 	}
 	return float64(cnt) * m.cell * m.cell, float64(top) - z
 }
+
+// rapidTol is the intrusion into material below which a rapid is not
+// reported, mm: far above float32 rounding of the cut-distance field (about
+// 1e-7 mm at the band width), far below any machining tolerance.
+const rapidTol = 1e-4
+
+// rapidHits confirms that a tool of radius r at c with its bottom at z
+// overlaps material that is still there, for a sample the grid has flagged
+// (Simulate's first filter: engagement on the periphery or material under
+// the bottom by the interpolated field). The grid's field beside a wall can
+// show material up to a cell beyond it (the "Several levels" limit of the
+// package notes), so a rapid passing a wall a little clear of it would be
+// reported. rapidHits reports an overlap only when
+//   - the centre of a material cell lies inside the disk by more than
+//     rapidTol (the height field is exact at cell centres: each stamp
+//     decides a centre by its exact distance to the tool path), or
+//   - a point of the periphery (sampled every quarter cell) is material by
+//     the field and lies in none of the disks B(q, a_q − rapidTol) of the
+//     cells q cut below the tool bottom within the band, a_q their cut
+//     distance. Those disks are surely cut (elementary geometry, the
+//     triangle inequality: a_q = r − d for a tool position within d of q,
+//     or the distance into a removed region or out of the stock).
+//
+// The disks of cells at most the band width inside a straight cut reach to
+// within about c²/(8·band) of its edge (c the cell size; 1/200 of a cell at
+// the default band of five cells), so a rapid clear of a wall by more than
+// that is not reported however its cells lie; one that enters material by
+// more than rapidTol at its periphery or by a cell at its bottom is.
+// Material wholly inside the disk, thinner than a cell and away from its
+// periphery, is not seen.
+func (m *Material) rapidHits(c geom.Point, z, r float64) bool {
+	zt := float32(z + epsZ)
+	// Material centres inside the disk.
+	rin := r - rapidTol
+	j0 := max(int(math.Ceil((c.Y-rin-m.y0)*m.inv-0.5)), 0)
+	j1 := min(int(math.Floor((c.Y+rin-m.y0)*m.inv-0.5))+1, m.ny)
+	for j := j0; j < j1; j++ {
+		dy := m.cy(j) - c.Y
+		w2 := rin*rin - dy*dy
+		if w2 < 0 {
+			continue
+		}
+		w := math.Sqrt(w2)
+		i0, i1 := m.rowSpan(c.X-w, c.X+w)
+		if i1 <= i0 {
+			continue
+		}
+		row := j * m.nx
+		for _, cl := range m.c[row+i0 : row+i1] {
+			if cl.h > zt {
+				return true
+			}
+		}
+	}
+	// The periphery.
+	n := max(16, int(math.Ceil(2*math.Pi*r/(m.cell/4))))
+	band := float64(m.band)
+	for k := 0; k < n; k++ {
+		sn, cs := math.Sincos(2 * math.Pi * float64(k) / float64(n))
+		x, y := c.X+r*cs, c.Y+r*sn
+		if v, _, _ := m.field(x, y, zt); v >= 0 {
+			continue
+		}
+		if !m.surelyCut(x, y, zt, band) {
+			return true
+		}
+	}
+	return false
+}
+
+// surelyCut reports whether (x, y) lies inside the surely cut disk
+// B(q, a_q − rapidTol) of a cell q cut below zt within band of it (see
+// rapidHits).
+func (m *Material) surelyCut(x, y float64, zt float32, band float64) bool {
+	j0 := max(int(math.Ceil((y-band-m.y0)*m.inv-0.5)), 0)
+	j1 := min(int(math.Floor((y+band-m.y0)*m.inv-0.5))+1, m.ny)
+	i0 := max(int(math.Ceil((x-band-m.x0)*m.inv-0.5)), 0)
+	i1 := min(int(math.Floor((x+band-m.x0)*m.inv-0.5))+1, m.nx)
+	for j := j0; j < j1; j++ {
+		dy := m.cy(j) - y
+		row := j * m.nx
+		for i := i0; i < i1; i++ {
+			cl := &m.c[row+i]
+			if cl.h > zt {
+				continue
+			}
+			a := float64(cl.a) - rapidTol
+			if a <= 0 {
+				continue
+			}
+			dx := m.cx(i) - x
+			if dx*dx+dy*dy < a*a {
+				return true
+			}
+		}
+	}
+	return false
+}

@@ -70,3 +70,53 @@ func TestRapidRetractFromOwnHole(t *testing.T) {
 	}
 	near(t, "depth", v[0].Depth, 1, 0.01)
 }
+
+// TestRapidBesideWall: a rapid at Z −4 along the wall y = w of a pocket cut
+// to −5, in a stock whose rest is cut to −2 (the wall holds material from
+// −5 to −2 beyond y = w). With the tool edge 0.05 mm short of the wall the
+// disk misses the material, so no violation; with it 0.05 mm beyond, the
+// disk overlaps it, so the move along the wall is one (elementary
+// geometry: the disk of radius r about a centre at y = w − r ∓ 0.05 reaches
+// y = w ∓ 0.05). Both orders of the cuts (the deeper first leaves the wall
+// known to the grid only to a cell, see the package notes) and several
+// positions of the wall against the 0.2 mm cells.
+func TestRapidBesideWall(t *testing.T) {
+	r := tool10.Radius()
+	for _, w := range []float64{40, 40.03, 40.07, 40.1, 40.13, 40.17} {
+		for _, deepFirst := range []bool{true, false} {
+			for _, clear := range []float64{0.05, -0.05} {
+				m, err := NewMaterial(rectShape(0, 0, 100, 80), 0, MaterialOptions{})
+				noErr(t, err)
+				deep, shallow := func() { noErr(t, m.Remove(rectShape(10, 10, 90, w), -5)) }, func() { noErr(t, m.Remove(rectShape(5, 5, 95, 60), -2)) }
+				if deepFirst {
+					deep()
+					shallow()
+				} else {
+					shallow()
+					deep()
+				}
+				y := w - r - clear
+				tp := &geom.Toolpath{Start: geom.Point3{X: 20, Y: y, Z: 5}, Moves: []geom.Move{
+					line(geom.Rapid, 20, y, -4, 0),
+					line(geom.Rapid, 80, y, -4, 0),
+					line(geom.Rapid, 80, y, 5, 0),
+				}}
+				res, err := Simulate(context.Background(), m, tool10, tp, SimOptions{})
+				noErr(t, err)
+				v := res.Summary.RapidViolations
+				if clear > 0 && len(v) != 0 {
+					t.Errorf("wall %g, deeper first %v: 0.05 mm clear of the wall, violations %+v", w, deepFirst, v)
+				}
+				if clear < 0 {
+					found := false
+					for _, x := range v {
+						found = found || x.Move == 1
+					}
+					if !found {
+						t.Errorf("wall %g, deeper first %v: 0.05 mm into the wall, violations %+v, want one in move 1", w, deepFirst, v)
+					}
+				}
+			}
+		}
+	}
+}

@@ -513,7 +513,9 @@ func (s *simulator) move(ctx context.Context, i int, g *moveGeom) error {
 		case rapid:
 			smp.Class = Rapid
 			smp.Feed = 0
-			if engaged {
+			// The grid is the first filter; rapidHits confirms from the
+			// cut distances that the disk overlaps material still there.
+			if engaged && m.rapidHits(p, z, s.r) {
 				smp.Violation = true
 				if !violated {
 					s.sum.RapidViolations = append(s.sum.RapidViolations, Violation{Move: i, At: geom.Point3{X: p.X, Y: p.Y, Z: z}, Depth: math.Max(above, e.AP)})
