@@ -287,8 +287,21 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	if comp.zones != nil {
 		return bandedZoned(ctx, b, job, comp, comp.zones, z, levelTop, clear, st, sum)
 	}
-	g := newBandedGridPad(comp.c, st.h, st.r+2*st.h)
+	// In a closed part the fronts stop a target step short of the walls
+	// (fc): the last pass along the walls then takes that step, in the
+	// band, instead of the scraps the passes' ends leave. (Open parts
+	// keep their fronts to the walls: measured worse there, the above-band
+	// share of the demo's deep step 0.008 → 0.027.)
+	fc := comp.c
+	if !comp.open {
+		w := st.r * (1 - math.Cos(st.phi))
+		if sh, err := offset.Offset(comp.c, -w, DefaultTolerance); err == nil && len(sh) == 1 && sh.Area() > 0.5*comp.c.Area() {
+			fc = sh
+		}
+	}
+	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
 	g.initStock(job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
+	g.boundary = comp.c
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
@@ -364,7 +377,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		bandedHelix(b, c, hr, approachZ, z, st)
 		sum.Entries++
 	}
-	pieces, _, err := spiralGrow(ctx, g, comp.c, start, pos, p)
+	pieces, _, err := spiralGrow(ctx, g, fc, start, pos, p)
 	if err != nil {
 		return err
 	}

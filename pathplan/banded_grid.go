@@ -26,6 +26,9 @@ type bandedGrid struct {
 	// stock is the material of the level, shared by the grids of one
 	// domain part's bays; nil: fronts step from the previous front alone.
 	stock *bandedStock
+	// boundary, when set, is the outline the last pass follows, outside
+	// the domain the fronts grow in.
+	boundary geom.Shape
 }
 
 // bandedWalls is the outline of a tool-centre domain in buckets, so that a

@@ -206,33 +206,55 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 	if p.noBoundary {
 		return out, pos, nil
 	}
+	if g.boundary != nil {
+		c = g.boundary
+	}
 	out = append(out, spiralBoundary(g, c, &pos, p)...)
 	return out, pos, nil
 }
 
 // spiralBoundary returns the last pass along the boundary of c, linked
-// from *pos, and moves *pos to its end.
+// from *pos, and moves *pos to its end. Each ring starts at its point
+// nearest the tool, reached by a lead-in that drifts onto the wall from a
+// step inside it over the length that keeps the drift under 10° (as
+// spiralTurn), so the pass enters the strip left along the wall gradually
+// instead of plunging into it sideways.
 func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams) []bandedPiece {
 	var out []bandedPiece
 	pos := *at
+	step := p.r * (1 - math.Cos(p.phi))
+	lead := step / math.Tan(10*math.Pi/180)
 	// Last pass along the boundary of the domain, climb: outer rings
 	// clockwise, holes counter-clockwise (material on the left).
 	for _, reg := range c {
 		for _, ring := range reg.Rings() {
 			rr := ring.Reversed()
-			bk, bd := 0, math.Inf(1)
-			for k, q := range rr {
+			n := len(rr)
+			bk, bd, bq := 0, math.Inf(1), rr[0]
+			for k := range rr {
+				q := geom.ClosestOnSegment(pos, rr[k], rr[(k+1)%n])
 				if d := q.Dist(pos); d < bd {
-					bk, bd = k, d
+					bk, bd, bq = k, d, q
 				}
 			}
-			pts := make([]geom.Point, 0, len(rr)+1)
-			for i := range rr {
-				pts = append(pts, rr[(bk+i)%len(rr)])
+			pts := make([]geom.Point, 0, n+2)
+			pts = append(pts, bq)
+			for i := 1; i <= n; i++ {
+				pts = append(pts, rr[(bk+i)%n])
 			}
-			pts = append(pts, pts[0])
-			if bd > 1e-6 {
-				out = append(out, spiralLink(g, pos, pts[0], p)...)
+			pts = append(pts, bq)
+			// The lead-in: from a step inside the wall, lead back along
+			// the edge the pass starts on.
+			t := rr[(bk+1)%n].Sub(rr[bk]).Unit()
+			nrm := geom.Pt(t.Y, -t.X) // the domain lies right of the climb direction
+			from := bq.Sub(t.Scale(lead)).Add(nrm.Scale(step))
+			if from.Dist(bq) > 1e-9 && c.Contains(from) && c.DistanceToBoundary(from) > 0.5*step && (g.walls == nil || !g.walls.crosses(from, bq)) {
+				if d := pos.Dist(from); d > 1e-6 {
+					out = append(out, spiralLink(g, pos, from, p)...)
+				}
+				out = append(out, bandedPiece{kind: pieceCut, pts: []geom.Point{from, bq}})
+			} else if bd > 1e-6 {
+				out = append(out, spiralLink(g, pos, bq, p)...)
 			}
 			out = append(out, bandedPiece{kind: pieceBoundary, pts: pts})
 			pos = pts[len(pts)-1]
