@@ -158,6 +158,10 @@ func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error
 			return nil, &JobError{Feature: f.Name, Msg: "too narrow for this tool"}
 		}
 		for i := range dom {
+			// The raster's size is known before the costly split.
+			if err := checkRasterBudget(f.Name, dom[i].c.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
+				return nil, fmt.Errorf("banded: %w", err)
+			}
 			z, err := bandedSplit(ctx, dom[i], st, tol)
 			if err != nil {
 				return nil, fmt.Errorf("banded: feature %q: %w", f.Name, err)
@@ -298,6 +302,9 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		if sh, err := offset.Offset(comp.c, -w, DefaultTolerance); err == nil && len(sh) == 1 && sh.Area() > 0.5*comp.c.Area() {
 			fc = sh
 		}
+	}
+	if err := checkRasterBudget(sum.Name, fc.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
+		return err
 	}
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
 	g.initStock(job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))

@@ -135,6 +135,9 @@ func bandedDiskFront(c geom.Point, rad float64, p spiralParams) spiralFront {
 // pass along the walls of the whole part takes the cusps of loops and
 // fronts.
 func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zones *offset.Zones, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
+	if err := checkRasterBudget(sum.Name, comp.c.Bounds(), st.h, st.r+2*st.h, len(zones.Bays)); err != nil {
+		return err
+	}
 	g := newBandedGridPad(comp.c, st.h, st.r+2*st.h)
 	g.initStock(job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly, noBoundary: true}

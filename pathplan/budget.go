@@ -61,3 +61,29 @@ func checkPathBudget(j *Job, strategy string) error {
 
 // errTooManyMoves is returned when a plan outgrows MaxMoves.
 var errTooManyMoves = fmt.Errorf("plan exceeds %d moves; use a larger tool or stepover, or split the job", MaxMoves)
+
+// MaxRasterBytes bounds the memory of the banded strategy's front raster
+// for one domain part (1.5 GiB): its nodes, the level's material on them,
+// and one mask per bay. A part that needs more is refused with the figure
+// rather than left to exhaust memory.
+const MaxRasterBytes = 3 << 29
+
+// bandedRasterBytes estimates the bytes of the front raster of a domain
+// part with bounds b, node spacing h, padding pad and bays bays: 44 bytes a
+// node for the raster and its material (see bandedGrid and bandedStock),
+// 14 more a node for every bay mask.
+func bandedRasterBytes(b geom.Rect, h, pad float64, bays int) float64 {
+	nx := math.Ceil((b.Width()+2*pad)/h) + 1
+	ny := math.Ceil((b.Height()+2*pad)/h) + 1
+	return nx * ny * float64(44+14*bays)
+}
+
+// checkRasterBudget refuses a domain part whose front raster would exceed
+// MaxRasterBytes.
+func checkRasterBudget(feature string, b geom.Rect, h, pad float64, bays int) error {
+	if need := bandedRasterBytes(b, h, pad, bays); need > MaxRasterBytes {
+		return jobErrorf(feature, "the front raster (%.0f × %.0f mm at %.3g mm) would need about %.1f GiB, above the limit of %.1f GiB; use a larger tool, a wider band or split the feature",
+			b.Width(), b.Height(), h, need/(1<<30), float64(MaxRasterBytes)/(1<<30))
+	}
+	return nil
+}

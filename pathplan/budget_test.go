@@ -48,3 +48,32 @@ func TestPathBudgetBanded(t *testing.T) {
 		t.Fatalf("PlanBanded: err %v, want the path-length limit as a job error", err)
 	}
 }
+
+func TestRasterBudgetBanded(t *testing.T) {
+	// A square ring channel 2 m across and 20 mm wide: 0.16 m² of area, so
+	// its path (2 × 1.6e5 mm² / 0.3 mm ≈ 1.1e6 mm) is within MaxPathLength,
+	// but its front raster spans the whole square: (2006.7 / 0.18)² ≈ 1.24e8
+	// nodes × 44 bytes ≈ 5.1 GiB, above MaxRasterBytes (arithmetic, worked
+	// by hand).
+	j := &Job{
+		Stock: Stock{Outline: geom.Shape{{Outer: geom.RectRing(0, 0, 2100, 2100)}}},
+		Features: []Feature{{Name: "moat", Region: geom.Shape{{
+			Outer: geom.RectRing(50, 50, 2050, 2050),
+			Holes: []geom.Ring{geom.RectRing(70, 70, 2030, 2030).Reversed()},
+		}}, Depth: 5}},
+		Tool:      Tool{Diameter: 6, FluteLength: 20, Flutes: 3},
+		Cut:       Cut{SpindleRPM: 18000, ChipLoad: 0.03, RampAngle: 3, HelixDiameter: 3, Band: [2]float64{0.05, 0.1}},
+		Clearance: 5,
+	}
+	if err := j.Validate(); err != nil {
+		t.Fatalf("the test job is invalid: %v", err)
+	}
+	if est := j.EstimatePathLength("banded"); est > MaxPathLength {
+		t.Fatalf("path estimate %.3g mm is over the path limit; the test would not reach the raster", est)
+	}
+	_, err := PlanBanded(context.Background(), j, BandedOptions{})
+	if err == nil || !strings.Contains(err.Error(), "front raster") || !strings.Contains(err.Error(), `"moat"`) || !IsJobError(err) {
+		t.Fatalf("PlanBanded: err %v, want the raster limit naming the feature as a job error", err)
+	}
+	t.Log(err)
+}

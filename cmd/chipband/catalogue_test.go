@@ -116,6 +116,10 @@ func badCatalogue() []badCase {
 			want: []string{`feature "pocket"`, "too narrow"}, out: outFile},
 		{name: "plan/banded/job_feature_too_narrow.json", args: []string{"plan", "@bad/job_feature_too_narrow.json", "--strategy", "banded", "-o", "@out"},
 			want: []string{`feature "pocket"`, "too narrow"}, out: outFile},
+		// A limit (reliability issue): the banded front raster of a
+		// feature whose bounds are huge though its area is small.
+		{name: "plan/banded/job_banded_raster_too_large.json", args: []string{"plan", "@bad/job_banded_raster_too_large.json", "--strategy", "banded", "-o", "@out"},
+			want: []string{`feature "moat"`, "front raster", "GiB"}, out: outFile},
 		{name: "plan/job_negative_depth.json", args: []string{"plan", "@bad/job_negative_depth.json", "-o", "@out"},
 			want: []string{`feature "pocket"`, "depth"}, out: outFile},
 		{name: "plan/banded/job_band_min_above_max.json", args: []string{"plan", "@bad/job_band_min_above_max.json", "--strategy", "banded", "-o", "@out"},
