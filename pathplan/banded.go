@@ -224,14 +224,43 @@ type bandedComp struct {
 }
 
 // bandedDomain returns the tool-centre domain of a feature, split into its
-// connected parts, largest first: the free space (the region, with the air
+// connected parts, largest first: the free space (the region, the parts of
+// later features at least as deep within a tool diameter of it, and the air
 // around the stock where the region leaves it) eroded by the tool radius
 // plus the allowance.
 func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]bandedComp, bool, error) {
 	stock := job.Stock.Outline
 	free := f.Region
+	// A later feature at least as deep removes its material at every
+	// level of this one, so the tool may work there too: it reaches
+	// the corners this feature shares with it. (An earlier one has
+	// left air there, which the fronts would cut again.)
+	// Only the part within a diameter of this feature is needed.
+	after := false
+	var reach geom.Shape
+	for _, g := range job.Features {
+		if g.Name == f.Name {
+			after = true
+			continue
+		}
+		if !after || g.Depth < f.Depth-1e-9 {
+			continue
+		}
+		if reach == nil {
+			r, err := offset.Offset(f.Region, 2*st.r, tol)
+			if err != nil {
+				return nil, false, err
+			}
+			reach = r
+		}
+		if near, err := geom.Intersection(g.Region, reach); err == nil {
+			if u, err := geom.Union(free, near); err == nil {
+				free = u
+			}
+		}
+	}
 	open := false
-	outside, err := geom.Difference(f.Region, stock)
+	outside, err := geom.Difference(free, stock)
 	if err != nil {
 		return nil, false, err
 	}
@@ -246,7 +275,7 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 		}
 		// Air next to the open sides only: the region grown by a few tool
 		// diameters, so links may swing outside the stock there.
-		near, err := offset.Offset(f.Region, 4*st.r, tol)
+		near, err := offset.Offset(free, 4*st.r, tol)
 		if err != nil {
 			return nil, false, err
 		}
@@ -254,7 +283,7 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 		if err != nil {
 			return nil, false, err
 		}
-		free, err = geom.Union(f.Region, air)
+		free, err = geom.Union(free, air)
 		if err != nil {
 			return nil, false, err
 		}

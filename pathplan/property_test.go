@@ -153,7 +153,6 @@ func knownPropertyDefects() map[string]string {
 		"banded/2878440cbb09907d":  "banded link gouges 0.007 mm into the wall corner where an open slot leaves the stock",
 		"banded/d8f3c9df7bb9c98e":  "banded link at depth gouges 0.021 mm into a wall",
 		"banded/50eb35032a93dceb":  "banded rapid through 2.5 mm of material",
-		"banded/031b13c5a848bcb6":  "banded leaves 0.78 % of reachable material uncut",
 		"banded/f606a714f5d7bbee":  "banded leaves 0.57 % of reachable material uncut",
 		"banded/1c77aa738cfa69fe":  "banded leaves 0.65 % of reachable material uncut",
 		"banded/dd20d0d7983cb9eb":  "banded leaves 0.64 % of reachable material uncut",
