@@ -328,7 +328,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	fc := comp.c
 	if !comp.open {
 		w := st.r * (1 - math.Cos(st.phi))
-		if sh, err := offset.Offset(comp.c, -w, DefaultTolerance); err == nil && len(sh) == 1 && sh.Area() > 0.5*comp.c.Area() {
+		if sh, err := offset.Offset(comp.c, -w, DefaultTolerance); err == nil && len(sh) == 1 && sh.Area() > 0.8*comp.c.Area() {
 			fc = sh
 		}
 	}
