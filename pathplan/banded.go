@@ -221,11 +221,14 @@ type bandedComp struct {
 	// zones is the part split into bays and channels, nil when it is
 	// cleared by fronts alone (see bandedSplit).
 	zones *offset.Zones
+	// material is where the level holds material: the stock outline less
+	// the parts of earlier, deeper features the domain reaches into.
+	material geom.Shape
 }
 
 // bandedDomain returns the tool-centre domain of a feature, split into its
 // connected parts, largest first: the free space (the region, the parts of
-// later features at least as deep within a tool diameter of it, and the air
+// other features at least as deep within a tool diameter of it, and the air
 // around the stock where the region leaves it) eroded by the tool radius
 // plus the allowance.
 func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]bandedComp, bool, error) {
@@ -233,17 +236,20 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 	free := f.Region
 	// A later feature at least as deep removes its material at every
 	// level of this one, so the tool may work there too: it reaches
-	// the corners this feature shares with it. (An earlier one has
-	// left air there, which the fronts would cut again.)
-	// Only the part within a diameter of this feature is needed.
+	// the corners this feature shares with it.
+	// An earlier one has left air there: the tool may work there as
+	// well, and the fronts take it as air (material lists the stock with
+	// those parts removed). Only the part within a diameter of this
+	// feature is needed.
 	after := false
+	material := stock
 	var reach geom.Shape
 	for _, g := range job.Features {
 		if g.Name == f.Name {
 			after = true
 			continue
 		}
-		if !after || g.Depth < f.Depth-1e-9 {
+		if g.Depth < f.Depth-1e-9 {
 			continue
 		}
 		if reach == nil {
@@ -253,9 +259,16 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 			}
 			reach = r
 		}
-		if near, err := geom.Intersection(g.Region, reach); err == nil {
-			if u, err := geom.Union(free, near); err == nil {
-				free = u
+		near, err := geom.Intersection(g.Region, reach)
+		if err != nil || near.Area() < 1e-9 {
+			continue
+		}
+		if u, err := geom.Union(free, near); err == nil {
+			free = u
+		}
+		if !after {
+			if m, err := geom.Difference(material, near); err == nil {
+				material = m
 			}
 		}
 	}
@@ -297,7 +310,7 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 		if reg.Area() < 1e-6 {
 			continue
 		}
-		out = append(out, bandedComp{c: geom.Shape{reg}})
+		out = append(out, bandedComp{c: geom.Shape{reg}, material: material})
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].c.Area() > out[j].c.Area() })
 	if open {
@@ -336,7 +349,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		return err
 	}
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
-	g.initStock(job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
+	g.initStock(comp.material, st.r, st.r*(1-math.Cos(st.phi)))
 	g.boundary = comp.c
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))

@@ -149,12 +149,5 @@ func knownPropertyDefects() map[string]string {
 		// material under a rapid descent whose exact clearance is 0.118 mm
 		// (exact check in TestLayeredRapidClearance).
 		"layered/6d99a234b183b296": "simulation grid reports a rapid through material the exact trace clears by 0.118 mm",
-		"banded/93ec21a61ac9c9e6":  "banded link gouges 0.007 mm into the wall corner where an open slot leaves the stock",
-		"banded/2878440cbb09907d":  "banded link gouges 0.007 mm into the wall corner where an open slot leaves the stock",
-		"banded/d8f3c9df7bb9c98e":  "banded link at depth gouges 0.021 mm into a wall",
-		"banded/50eb35032a93dceb":  "banded rapid through 2.5 mm of material",
-		"banded/f606a714f5d7bbee":  "banded leaves 0.57 % of reachable material uncut",
-		"banded/1c77aa738cfa69fe":  "banded leaves 0.65 % of reachable material uncut",
-		"banded/dd20d0d7983cb9eb":  "banded leaves 0.64 % of reachable material uncut",
 	}
 }
