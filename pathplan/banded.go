@@ -349,7 +349,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		return err
 	}
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
-	g.initStock(comp.material, st.r, st.r*(1-math.Cos(st.phi)))
+	g.initStock(fc, comp.material, st.r, st.r*(1-math.Cos(st.phi)))
 	g.boundary = comp.c
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))

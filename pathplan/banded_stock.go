@@ -92,10 +92,10 @@ func (q *floatHeap) pop() (int32, float32) {
 }
 
 // initStock sets up the material of the level on g's raster: every node
-// inside stock (the stock outline) within r of the tool-centre domain (a
-// little less, so that the walls themselves never count as material).
-// bite is the depth a link may take into uncut material.
-func (g *bandedGrid) initStock(stock geom.Shape, r, bite float64) {
+// inside stock (where the level holds material) within r of the tool-centre
+// domain c (a little less, so that the walls themselves never count as
+// material). bite is the depth a link may take into uncut material.
+func (g *bandedGrid) initStock(c, stock geom.Shape, r, bite float64) {
 	n := g.nx * g.ny
 	s := &bandedStock{r: r, bite: bite, mat: make([]bool, n), cl: make([]float32, n)}
 	s.air = scanFill(stock, g.x0, g.y0, g.h, g.nx, g.ny)
@@ -106,66 +106,33 @@ func (g *bandedGrid) initStock(stock geom.Shape, r, bite float64) {
 	for k := range s.cl {
 		s.cl[k] = inf
 	}
-	// Distance outward from the domain's edge nodes (a vector distance
-	// sweep, as in propagate).
-	reach := r - 0.25*g.h
-	d := make([]float32, n)
-	src := make([]int32, n)
-	for k := range d {
-		d[k] = inf
-		src[k] = -1
-	}
-	var q floatHeap
 	for k, in := range g.in {
-		if !in {
-			continue
-		}
-		if !s.air[k] {
+		if in && !s.air[k] {
 			s.mat[k] = true
 		}
-		i, j := k%g.nx, k/g.nx
-		edge := false
-		for _, o := range [4][2]int{{1, 0}, {-1, 0}, {0, 1}, {0, -1}} {
-			ii, jj := i+o[0], j+o[1]
-			if ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny || !g.in[jj*g.nx+ii] {
-				edge = true
-				break
-			}
-		}
-		if edge {
-			d[k], src[k] = 0, int32(k)
-			q.push(int32(k), 0)
-		}
 	}
-	for len(q.k) > 0 {
-		k, dk := q.pop()
-		if dk > d[k] {
-			continue
-		}
-		sp := g.pt(int(src[k]))
-		i, j := int(k)%g.nx, int(k)/g.nx
-		for dj := -1; dj <= 1; dj++ {
-			for di := -1; di <= 1; di++ {
-				ii, jj := i+di, j+dj
-				if (di == 0 && dj == 0) || ii < 0 || jj < 0 || ii >= g.nx || jj >= g.ny {
+	// The strip outside the domain within reach of it: the capsules of
+	// its edges (the distance to the domain from outside is the distance
+	// to its outline).
+	reach := r - 0.25*g.h
+	for _, ring := range c.Rings() {
+		for i := range ring {
+			a, b := ring[i], ring[(i+1)%len(ring)]
+			j0 := max(0, int(math.Floor((min(a.Y, b.Y)-reach-g.y0)/g.h)))
+			j1 := min(g.ny-1, int(math.Ceil((max(a.Y, b.Y)+reach-g.y0)/g.h)))
+			for j := j0; j <= j1; j++ {
+				lo, hi := capsuleRow(a, b, g.y0+float64(j)*g.h, reach)
+				if lo > hi {
 					continue
 				}
-				kk := jj*g.nx + ii
-				if g.in[kk] {
-					continue
-				}
-				nd := float32(g.pt(kk).Dist(sp))
-				nd = max(nd, dk)
-				if nd < d[kk] && float64(nd) <= reach {
-					d[kk], src[kk] = nd, src[k]
-					q.push(int32(kk), nd)
+				i0 := max(0, int(math.Ceil((lo-g.x0)/g.h)))
+				i1 := min(g.nx-1, int(math.Floor((hi-g.x0)/g.h)))
+				for k := j*g.nx + i0; k <= j*g.nx+i1; k++ {
+					if !s.air[k] {
+						s.mat[k] = true
+					}
 				}
 			}
-		}
-	}
-	for k := range d {
-		if !g.in[k] && d[k] < inf && !s.air[k] {
-			s.mat[k] = true
 		}
 	}
 	s.dm = make([]float32, n)
