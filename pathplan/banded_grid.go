@@ -29,6 +29,9 @@ type bandedGrid struct {
 	// boundary, when set, is the outline the last pass follows, outside
 	// the domain the fronts grow in.
 	boundary geom.Shape
+	// airStep, while positive, makes the front field the plain distance
+	// from the last front less airStep: a step through cleared space.
+	airStep float64
 }
 
 // bandedWalls is the outline of a tool-centre domain in buckets, so that a
@@ -308,6 +311,9 @@ func (g *bandedGrid) value(k int, segs []spiralSeg, far float64) float64 {
 	s := segs[g.src[k]]
 	_, tp := s.distParam(g.pt(k))
 	step := s.sa + (s.sb-s.sa)*tp
+	if g.airStep > 0 {
+		return g.t[k] - g.airStep
+	}
 	if g.stock != nil {
 		// The tool centre at k bites r − d into the uncut material at
 		// distance d (see bandedStock).

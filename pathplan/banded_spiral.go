@@ -104,6 +104,25 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 		}
 		if len(fronts) == 0 {
+			if g.stock != nil {
+				// No material within reach of this front (it grew into
+				// space another feature cleared): step on through the
+				// air by the propagation distance, uncut, so that the
+				// material beyond is still met.
+				g.airStep = p.maxStep + 2*p.h
+				var adv []spiralFront
+				for _, pts := range g.contours(segs, p.maxStep+3*p.h) {
+					if f := spiralPrepare(pts, c, p); f.pts != nil {
+						adv = append(adv, f)
+					}
+				}
+				g.sweepReached(segs)
+				g.airStep = 0
+				if len(adv) > 0 {
+					stack = append(stack, adv)
+				}
+				continue
+			}
 			// Nothing long enough to cut: take what was reached.
 			g.sweepReached(segs)
 			continue
