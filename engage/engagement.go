@@ -385,13 +385,31 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 // there above z (0 when none).
 func (m *Material) diskMaterial(c geom.Point, z, r float64) (area, above float64) {
 	zt := float32(z + epsZ)
-	j0 := max(int(math.Ceil((c.Y-r-m.y0)*m.inv-0.5)), 0)
-	j1 := min(int(math.Floor((c.Y+r-m.y0)*m.inv-0.5))+1, m.ny)
 	var cnt int
 	top := float32(math.Inf(-1))
+	m.diskRows(c, r*math.Sqrt(1-1e-9), func(cells []cell) bool {
+		for _, cl := range cells {
+			if h := cl.h; h > zt {
+				cnt++
+				top = max(top, h)
+			}
+		}
+		return true
+	})
+	if cnt == 0 {
+		return 0, 0
+	}
+	return float64(cnt) * m.cell * m.cell, float64(top) - z
+}
+
+// diskRows hands visit, row by row, the cells whose centres lie inside the
+// disk of radius r about c; it stops when visit returns false.
+func (m *Material) diskRows(c geom.Point, r float64, visit func(cells []cell) bool) {
+	j0 := max(int(math.Ceil((c.Y-r-m.y0)*m.inv-0.5)), 0)
+	j1 := min(int(math.Floor((c.Y+r-m.y0)*m.inv-0.5))+1, m.ny)
 	for j := j0; j < j1; j++ {
 		dy := m.cy(j) - c.Y
-		w2 := r*r*(1-1e-9) - dy*dy
+		w2 := r*r - dy*dy
 		if w2 < 0 {
 			continue
 		}
@@ -401,17 +419,10 @@ func (m *Material) diskMaterial(c geom.Point, z, r float64) (area, above float64
 			continue
 		}
 		row := j * m.nx
-		for _, cl := range m.c[row+i0 : row+i1] {
-			if h := cl.h; h > zt {
-				cnt++
-				top = max(top, h)
-			}
+		if !visit(m.c[row+i0 : row+i1]) {
+			return
 		}
 	}
-	if cnt == 0 {
-		return 0, 0
-	}
-	return float64(cnt) * m.cell * m.cell, float64(top) - z
 }
 
 // rapidTol is the intrusion into material below which a rapid is not
@@ -446,26 +457,18 @@ const rapidTol = 1e-4
 func (m *Material) rapidHits(c geom.Point, z, r float64) bool {
 	zt := float32(z + epsZ)
 	// Material centres inside the disk.
-	rin := r - rapidTol
-	j0 := max(int(math.Ceil((c.Y-rin-m.y0)*m.inv-0.5)), 0)
-	j1 := min(int(math.Floor((c.Y+rin-m.y0)*m.inv-0.5))+1, m.ny)
-	for j := j0; j < j1; j++ {
-		dy := m.cy(j) - c.Y
-		w2 := rin*rin - dy*dy
-		if w2 < 0 {
-			continue
-		}
-		w := math.Sqrt(w2)
-		i0, i1 := m.rowSpan(c.X-w, c.X+w)
-		if i1 <= i0 {
-			continue
-		}
-		row := j * m.nx
-		for _, cl := range m.c[row+i0 : row+i1] {
+	hit := false
+	m.diskRows(c, r-rapidTol, func(cells []cell) bool {
+		for _, cl := range cells {
 			if cl.h > zt {
-				return true
+				hit = true
+				return false
 			}
 		}
+		return true
+	})
+	if hit {
+		return true
 	}
 	// The periphery.
 	n := max(16, int(math.Ceil(2*math.Pi*r/(m.cell/4))))
