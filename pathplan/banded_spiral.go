@@ -235,9 +235,10 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 // spiralBoundary returns the last pass along the boundary of c, linked
 // from *pos, and moves *pos to its end. Each ring starts at its point
 // nearest the tool, reached by a lead-in that drifts onto the wall from a
-// step inside it over the length that keeps the drift under 10° (as
-// spiralTurn), so the pass enters the strip left along the wall gradually
-// instead of plunging into it sideways.
+// step inside it over the length that keeps the drift under 10° (the
+// engaged arc grows by about the drift angle, elementary geometry), so the
+// pass enters the strip left along the wall gradually instead of plunging
+// into it sideways.
 func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams) []bandedPiece {
 	var out []bandedPiece
 	pos := *at
