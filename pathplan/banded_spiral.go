@@ -525,7 +525,9 @@ func spiralLink(g *bandedGrid, a, b geom.Point, p spiralParams) []bandedPiece {
 	}
 }
 
-// nearestReached returns the swept node nearest to p (p itself when none).
+// nearestReached returns the swept node nearest to p where the tool is
+// free of uncut material and which a straight leg from p reaches without
+// crossing the domain's outline (p itself when none).
 func nearestReached(g *bandedGrid, p geom.Point) geom.Point {
 	k0 := g.node(p)
 	if k0 < 0 {
@@ -543,7 +545,9 @@ func nearestReached(g *bandedGrid, p geom.Point) geom.Point {
 					continue
 				}
 				k := j*g.nx + i
-				if g.in[k] && g.reached[k] && g.freeNode(k) {
+				// The leg to the node is straight: it must not cross the
+				// domain's outline (a far node can lie round a corner).
+				if g.in[k] && g.reached[k] && g.freeNode(k) && (g.walls == nil || !g.walls.crosses(p, g.pt(k))) {
 					if d := g.pt(k).Dist(p); d < bd {
 						best, bd = k, d
 					}
