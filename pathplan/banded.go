@@ -221,14 +221,13 @@ type bandedComp struct {
 	// zones is the part split into bays and channels, nil when it is
 	// cleared by fronts alone (see bandedSplit).
 	zones *offset.Zones
-	// material is where the level holds material: the stock outline less
-	// the parts of earlier, deeper features the domain reaches into.
+	// material is where the level holds material (the stock outline).
 	material geom.Shape
 }
 
 // bandedDomain returns the tool-centre domain of a feature, split into its
 // connected parts, largest first: the free space (the region, the parts of
-// other features at least as deep within a tool diameter of it, and the air
+// later features at least as deep within a tool diameter of it, and the air
 // around the stock where the region leaves it) eroded by the tool radius
 // plus the allowance.
 func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]bandedComp, bool, error) {
@@ -236,11 +235,11 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 	free := f.Region
 	// A later feature at least as deep removes its material at every
 	// level of this one, so the tool may work there too: it reaches
-	// the corners this feature shares with it.
-	// An earlier one has left air there: the tool may work there as
-	// well, and the fronts take it as air (material lists the stock with
-	// those parts removed). Only the part within a diameter of this
-	// feature is needed.
+	// the corners this feature shares with it. Only the part within a
+	// diameter of this feature is needed. (Earlier, deeper features are
+	// left out: taking their cleared space in as air made slivers of
+	// domain and fronts that started in air, and the 500-pocket run
+	// found gouges, rapids and uncut features from it.)
 	after := false
 	material := stock
 	var reach geom.Shape
@@ -249,7 +248,7 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 			after = true
 			continue
 		}
-		if g.Depth < f.Depth-1e-9 {
+		if !after || g.Depth < f.Depth-1e-9 {
 			continue
 		}
 		if reach == nil {
@@ -265,11 +264,6 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 		}
 		if u, err := geom.Union(free, near); err == nil {
 			free = u
-		}
-		if !after {
-			if m, err := geom.Difference(material, near); err == nil {
-				material = m
-			}
 		}
 	}
 	open := false

@@ -144,8 +144,11 @@ func planWith(ctx context.Context, strat string, j *Job) (*Plan, error) {
 // defect; they are logged instead of failing the test until fixed. The
 // reproductions are in the closing note of the reliability issue.
 func knownPropertyDefects() map[string]string {
-	// Empty: the last entry (a rapid the simulation grid saw within a cell
-	// of material) went when engage began confirming rapids from the cut
-	// distances; the 500-pocket run no longer reports it.
-	return map[string]string{}
+	return map[string]string{
+		// A corner of the shallow feature B is reachable only from the
+		// space of the earlier, deeper feature A (air by then); the
+		// banded domain does not take that space in (tried: it made
+		// domain slivers and gouges elsewhere).
+		"banded/e0c7f90d9c1b5540": "banded leaves 0.64 % of reachable material uncut in a corner reachable only from an earlier, deeper feature",
+	}
 }
