@@ -221,8 +221,6 @@ type bandedComp struct {
 	// zones is the part split into bays and channels, nil when it is
 	// cleared by fronts alone (see bandedSplit).
 	zones *offset.Zones
-	// material is where the level holds material (the stock outline).
-	material geom.Shape
 }
 
 // bandedDomain returns the tool-centre domain of a feature, split into its
@@ -241,7 +239,6 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 	// domain and fronts that started in air, and the 500-pocket run
 	// found gouges, rapids and uncut features from it.)
 	after := false
-	material := stock
 	var reach geom.Shape
 	for _, g := range job.Features {
 		if g.Name == f.Name {
@@ -304,7 +301,7 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 		if reg.Area() < 1e-6 {
 			continue
 		}
-		out = append(out, bandedComp{c: geom.Shape{reg}, material: material})
+		out = append(out, bandedComp{c: geom.Shape{reg}})
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].c.Area() > out[j].c.Area() })
 	if open {
@@ -343,7 +340,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		return err
 	}
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
-	g.initStock(fc, comp.material, st.r, st.r*(1-math.Cos(st.phi)))
+	g.initStock(fc, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	g.boundary = comp.c
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))

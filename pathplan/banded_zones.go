@@ -139,7 +139,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 		return err
 	}
 	g := newBandedGridPad(comp.c, st.h, st.r+2*st.h)
-	g.initStock(comp.c, comp.material, st.r, st.r*(1-math.Cos(st.phi)))
+	g.initStock(comp.c, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly, noBoundary: true}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
