@@ -1,7 +1,6 @@
 package pathplan
 
 import (
-	"container/heap"
 	"math"
 
 	"github.com/chipband/chipband/geom"
@@ -32,6 +31,7 @@ type bandedGrid struct {
 	// airStep, while positive, makes the front field the plain distance
 	// from the last front less airStep: a step through cleared space.
 	airStep float64
+	heap    nodeHeap[float64] // scratch of propagate
 }
 
 // bandedWalls is the outline of a tool-centre domain in buckets, so that a
@@ -161,9 +161,13 @@ func (g *bandedGrid) markDisk(c geom.Point, rad float64) {
 	j0 := int(math.Floor((c.Y - rad - g.y0) / g.h))
 	j1 := int(math.Ceil((c.Y + rad - g.y0) / g.h))
 	for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
+		dy := g.y0 + float64(j)*g.h - c.Y
 		for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
 			k := j*g.nx + i
-			if g.in[k] && g.pt(k).Dist(c) <= rad {
+			if !g.in[k] || g.reached[k] {
+				continue
+			}
+			if dx := g.x0 + float64(i)*g.h - c.X; math.Hypot(dx, dy) <= rad {
 				g.reached[k] = true
 			}
 		}
@@ -206,27 +210,53 @@ func (s spiralSeg) distParam(p geom.Point) (float64, float64) {
 	return math.Sqrt(dx*dx + dy*dy), t
 }
 
-type nodeHeap struct {
+// nodeHeap is a binary min-heap of raster nodes by distance. It pops
+// equal distances in the same order as container/heap would, without the
+// interface boxing of each entry.
+type nodeHeap[D float32 | float64] struct {
 	k []int32
-	d []float64
+	d []D
 }
 
-func (q *nodeHeap) Len() int           { return len(q.k) }
-func (q *nodeHeap) Less(i, j int) bool { return q.d[i] < q.d[j] }
-func (q *nodeHeap) Swap(i, j int) {
-	q.k[i], q.k[j] = q.k[j], q.k[i]
-	q.d[i], q.d[j] = q.d[j], q.d[i]
+func (q *nodeHeap[D]) reset() { q.k, q.d = q.k[:0], q.d[:0] }
+
+func (q *nodeHeap[D]) push(k int32, d D) {
+	q.k = append(q.k, k)
+	q.d = append(q.d, d)
+	i := len(q.k) - 1
+	for i > 0 {
+		p := (i - 1) / 2
+		if q.d[p] <= q.d[i] {
+			break
+		}
+		q.k[p], q.k[i] = q.k[i], q.k[p]
+		q.d[p], q.d[i] = q.d[i], q.d[p]
+		i = p
+	}
 }
-func (q *nodeHeap) Push(x any) {
-	e := x.([2]float64)
-	q.k = append(q.k, int32(e[0]))
-	q.d = append(q.d, e[1])
-}
-func (q *nodeHeap) Pop() any {
+
+func (q *nodeHeap[D]) pop() (int32, D) {
+	k, d := q.k[0], q.d[0]
 	n := len(q.k) - 1
-	e := [2]float64{float64(q.k[n]), q.d[n]}
+	q.k[0], q.d[0] = q.k[n], q.d[n]
 	q.k, q.d = q.k[:n], q.d[:n]
-	return e
+	i := 0
+	for {
+		l, r, m := 2*i+1, 2*i+2, i
+		if l < n && q.d[l] < q.d[m] {
+			m = l
+		}
+		if r < n && q.d[r] < q.d[m] {
+			m = r
+		}
+		if m == i {
+			break
+		}
+		q.k[m], q.k[i] = q.k[i], q.k[m]
+		q.d[m], q.d[i] = q.d[i], q.d[m]
+		i = m
+	}
+	return k, d
 }
 
 // propagate computes, for the unswept domain nodes within limit of the
@@ -241,14 +271,15 @@ func (g *bandedGrid) propagate(segs []spiralSeg, limit float64) {
 		g.src[k] = -1
 	}
 	g.touched = g.touched[:0]
-	q := &nodeHeap{}
+	q := &g.heap
+	q.reset()
 	set := func(k int, d float64, s int) {
 		if g.src[k] < 0 {
 			g.touched = append(g.touched, int32(k))
 		}
 		g.t[k] = d
 		g.src[k] = int32(s)
-		heap.Push(q, [2]float64{float64(k), d})
+		q.push(int32(k), d)
 	}
 	pad := 1.5 * g.h
 	for si, s := range segs {
@@ -269,9 +300,9 @@ func (g *bandedGrid) propagate(segs []spiralSeg, limit float64) {
 			}
 		}
 	}
-	for q.Len() > 0 {
-		e := heap.Pop(q).([2]float64)
-		k, d := int(e[0]), e[1]
+	for len(q.k) > 0 {
+		kq, d := q.pop()
+		k := int(kq)
 		if d > g.t[k] {
 			continue
 		}

@@ -2,6 +2,7 @@ package pathplan
 
 import (
 	"math"
+	"math/bits"
 	"sort"
 
 	"github.com/chipband/chipband/geom"
@@ -39,56 +40,67 @@ type bandedStock struct {
 	dgen  []uint32
 	gen   uint32
 	seeds []geom.Point
-	heap  floatHeap
+	heap  radixHeap
 	// Buckets of side bs nodes that a query covers.
 	bs, bnx, bny int
 	bmark        []uint32
+	bcol, brow   []int32 // bucket column of a node column, bucket offset of a node row
 	blist        []int32
 }
 
-// floatHeap is a binary min-heap of nodes by distance.
-type floatHeap struct {
-	k []int32
-	d []float32
+// radixHeap is a monotone priority queue of nodes by non-negative float32
+// distance (Ahuja, Mehlhorn, Orlin and Tarjan 1990, the radix heap): keys
+// are the distances' bit patterns, which order as the distances do, and no
+// key pushed may be below the last one popped, as in a Dijkstra sweep.
+// Entries of equal distance pop in no particular order.
+type radixHeap struct {
+	last uint32
+	n    int
+	b    [33][]radixEntry
 }
 
-func (q *floatHeap) push(k int32, d float32) {
-	q.k = append(q.k, k)
-	q.d = append(q.d, d)
-	i := len(q.k) - 1
-	for i > 0 {
-		p := (i - 1) / 2
-		if q.d[p] <= q.d[i] {
-			break
-		}
-		q.k[p], q.k[i] = q.k[i], q.k[p]
-		q.d[p], q.d[i] = q.d[i], q.d[p]
-		i = p
-	}
+type radixEntry struct {
+	key uint32
+	k   int32
 }
 
-func (q *floatHeap) pop() (int32, float32) {
-	k, d := q.k[0], q.d[0]
-	n := len(q.k) - 1
-	q.k[0], q.d[0] = q.k[n], q.d[n]
-	q.k, q.d = q.k[:n], q.d[:n]
-	i := 0
-	for {
-		l, r, m := 2*i+1, 2*i+2, i
-		if l < n && q.d[l] < q.d[m] {
-			m = l
-		}
-		if r < n && q.d[r] < q.d[m] {
-			m = r
-		}
-		if m == i {
-			break
-		}
-		q.k[m], q.k[i] = q.k[i], q.k[m]
-		q.d[m], q.d[i] = q.d[i], q.d[m]
-		i = m
+func (q *radixHeap) reset() {
+	for i := range q.b {
+		q.b[i] = q.b[i][:0]
 	}
-	return k, d
+	q.last, q.n = 0, 0
+}
+
+func radixBucket(key, last uint32) int { return bits.Len32(key ^ last) }
+
+func (q *radixHeap) push(k int32, d float32) {
+	key := math.Float32bits(d)
+	i := radixBucket(key, q.last)
+	q.b[i] = append(q.b[i], radixEntry{key, k})
+	q.n++
+}
+
+func (q *radixHeap) pop() (int32, float32) {
+	if len(q.b[0]) == 0 {
+		i := 1
+		for len(q.b[i]) == 0 {
+			i++
+		}
+		m := q.b[i][0].key
+		for _, e := range q.b[i][1:] {
+			m = min(m, e.key)
+		}
+		q.last = m
+		for _, e := range q.b[i] {
+			j := radixBucket(e.key, m)
+			q.b[j] = append(q.b[j], e)
+		}
+		q.b[i] = q.b[i][:0]
+	}
+	e := q.b[0][len(q.b[0])-1]
+	q.b[0] = q.b[0][:len(q.b[0])-1]
+	q.n--
+	return e.k, math.Float32frombits(e.key)
 }
 
 // initStock sets up the material of the level on g's raster: every node
@@ -142,6 +154,14 @@ func (g *bandedGrid) initStock(c, stock geom.Shape, r, bite float64) {
 	s.bnx = (g.nx + s.bs - 1) / s.bs
 	s.bny = (g.ny + s.bs - 1) / s.bs
 	s.bmark = make([]uint32, s.bnx*s.bny)
+	s.bcol = make([]int32, g.nx)
+	for i := range s.bcol {
+		s.bcol[i] = int32(i / s.bs)
+	}
+	s.brow = make([]int32, g.ny)
+	for j := range s.brow {
+		s.brow[j] = int32(j / s.bs * s.bnx)
+	}
 	g.stock = s
 }
 
@@ -177,23 +197,20 @@ func scanFill(c geom.Shape, x0, y0, h float64, nx, ny int) []bool {
 // stampPath records the polyline pts as cut: every node within the tool
 // radius of it is cut, and the distances of the nodes just beyond are
 // kept, so the edge of the cut is known between nodes. Nodes deep inside
-// the previous segment's sweep are cut already and skipped, which keeps the
-// work per segment to the strip its sweep adds.
+// the cut already (by this path's previous segment or an earlier pass) are
+// skipped after one read, which keeps the work per segment to the strip
+// its sweep adds.
 func (g *bandedGrid) stampPath(pts []geom.Point) {
 	if g.stock == nil || len(pts) == 0 {
 		return
 	}
 	g.stock.cuts++
 	if len(pts) == 1 {
-		g.stampSeg(pts[0], pts[0], nil)
+		g.stampSeg(pts[0], pts[0])
 		return
 	}
 	for i := 0; i+1 < len(pts); i++ {
-		var prev *[2]geom.Point
-		if i > 0 {
-			prev = &[2]geom.Point{pts[i-1], pts[i]}
-		}
-		g.stampSeg(pts[i], pts[i+1], prev)
+		g.stampSeg(pts[i], pts[i+1])
 	}
 }
 
@@ -271,9 +288,8 @@ func capsuleRow(a, b geom.Point, y, R float64) (lo, hi float64) {
 	return lo, hi
 }
 
-// stampSeg records the segment ab as cut (see stampPath); prev, when set,
-// is the segment stamped just before, whose inner sweep is skipped.
-func (g *bandedGrid) stampSeg(a, b geom.Point, prev *[2]geom.Point) {
+// stampSeg records the segment ab as cut (see stampPath).
+func (g *bandedGrid) stampSeg(a, b geom.Point) {
 	s := g.stock
 	// A node beside the cut edge lies within a node spacing of it (the
 	// distance is 1-Lipschitz), so exact distances within r ± h suffice.
@@ -291,18 +307,14 @@ func (g *bandedGrid) stampSeg(a, b geom.Point, prev *[2]geom.Point) {
 		}
 		ci0 := max(0, int(math.Ceil((lo-g.x0)/g.h)))
 		ci1 := min(g.nx-1, int(math.Floor((hi-g.x0)/g.h)))
-		// Nodes within Rin of the previous segment hold cl ≤ Rin already.
-		si0, si1 := 1, 0
-		if prev != nil && Rin > 0 {
-			if plo, phi := capsuleRow(prev[0], prev[1], y, Rin); plo <= phi {
-				si0 = int(math.Ceil((plo - g.x0) / g.h))
-				si1 = int(math.Floor((phi - g.x0) / g.h))
-			}
-		}
 		row := j * g.nx
 		for i := ci0; i <= ci1; i++ {
-			if i >= si0 && i <= si1 {
-				i = si1
+			// A node already within Rin of the path is deep in the cut;
+			// only distances above Rin are ever read (uncut tests
+			// against r, and the cut edge lies between a node beyond r
+			// and a neighbour at least r − h away), so it is left.
+			c := float64(s.cl[row+i])
+			if c <= Rin {
 				continue
 			}
 			x := g.x0 + float64(i)*g.h
@@ -317,9 +329,8 @@ func (g *bandedGrid) stampSeg(a, b geom.Point, prev *[2]geom.Point) {
 				}
 			}
 			dx, dy := px-t*ab.X, py-t*ab.Y
-			d := float32(math.Sqrt(dx*dx + dy*dy))
-			if d < s.cl[row+i] {
-				s.cl[row+i] = d
+			if d2 := dx*dx + dy*dy; d2 < c*c {
+				s.cl[row+i] = float32(math.Sqrt(d2))
 			}
 		}
 	}
@@ -362,11 +373,8 @@ func (g *bandedGrid) materialDistance() {
 			}
 		}
 	}
-	marked := func(k int) bool {
-		return s.bmark[(k/g.nx/s.bs)*s.bnx+(k%g.nx)/s.bs] == gen
-	}
 	s.seeds = s.seeds[:0]
-	s.heap.k, s.heap.d = s.heap.k[:0], s.heap.d[:0]
+	s.heap.reset()
 	r := float32(s.r)
 	set := func(k int, d float32, src int32) {
 		s.dm[k], s.dsrc[k], s.dgen[k] = d, src, gen
@@ -408,7 +416,7 @@ func (g *bandedGrid) materialDistance() {
 			}
 		}
 	}
-	for len(s.heap.k) > 0 {
+	for s.heap.n > 0 {
 		k, d := s.heap.pop()
 		if d > s.dm[k] {
 			continue
@@ -422,11 +430,11 @@ func (g *bandedGrid) materialDistance() {
 					continue
 				}
 				kk := jj*g.nx + ii
-				if s.uncut(kk) || !marked(kk) {
+				if s.uncut(kk) || s.bmark[s.brow[jj]+s.bcol[ii]] != gen {
 					continue
 				}
-				p := g.pt(kk)
-				nd := max(float32(math.Sqrt((p.X-e.X)*(p.X-e.X)+(p.Y-e.Y)*(p.Y-e.Y))), d)
+				px, py := g.x0+float64(ii)*g.h-e.X, g.y0+float64(jj)*g.h-e.Y
+				nd := max(float32(math.Sqrt(px*px+py*py)), d)
 				if nd <= r && (s.dgen[kk] != gen || nd < s.dm[kk]) {
 					set(kk, nd, s.dsrc[k])
 				}
