@@ -5,7 +5,9 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"sort"
+	"sync"
 
 	"github.com/chipband/chipband/geom"
 	"github.com/chipband/chipband/offset"
@@ -128,65 +130,28 @@ func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error
 	if err := checkPathBudget(job, "banded"); err != nil {
 		return nil, err
 	}
-	tol := opts.Tolerance
-	if tol <= 0 {
-		tol = DefaultTolerance
-	}
-	top := job.Stock.Top
-	clear := top + job.Clearance
-	if job.Clearance <= 0 {
-		clear = top + 5
-	}
+	fp := bandedParams(job, st, opts)
 	plan := &Plan{Job: job, Strategy: "banded"}
 	b := &builder{}
-	b.path.Start = geom.Point3{X: 0, Y: 0, Z: clear}
+	b.path.Start = geom.Point3{X: 0, Y: 0, Z: fp.clear}
 	b.pos = b.path.Start
-	for fi, f := range job.Features {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		sum := FeatureSummary{Name: f.Name, Depth: f.Depth, First: len(b.path.Moves)}
-		b.path.Ops = append(b.path.Ops, geom.Operation{Name: f.Name, First: len(b.path.Moves)})
-		dom, open, err := bandedDomain(job, f, st, tol)
-		if err != nil {
-			return nil, fmt.Errorf("banded: feature %q: %w", f.Name, err)
-		}
-		sum.Open = open
-		inStock, _ := geom.Intersection(f.Region, job.Stock.Outline)
-		sum.Area = inStock.Area()
-		if len(dom) == 0 {
-			return nil, &JobError{Feature: f.Name, Msg: "too narrow for this tool"}
-		}
-		for i := range dom {
-			// The raster's size is known before the costly split.
-			if err := checkRasterBudget(f.Name, dom[i].c.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
-				return nil, fmt.Errorf("banded: %w", err)
-			}
-			z, err := bandedSplit(ctx, dom[i], st, tol)
-			if err != nil {
-				return nil, fmt.Errorf("banded: feature %q: %w", f.Name, err)
-			}
-			dom[i].zones = z
-		}
-		levels := bandedLevels(top, f.Depth, job.Tool.FluteLength)
-		sum.Levels = levels
-		levelTop := top
-		for li, z := range levels {
-			if opts.Progress != nil {
-				opts.Progress(li, len(levels))
-			}
-			for _, comp := range dom {
-				if err := bandedLevel(ctx, b, job, comp, z, levelTop, clear, st, &sum); err != nil {
-					return nil, fmt.Errorf("banded: feature %q level %d: %w", f.Name, li+1, err)
-				}
-			}
-			levelTop = z
-		}
-		// Retract between features.
-		b.feed(geom.Lift, p3(b.pos.XY(), clear), st.feed)
-		sum.End = len(b.path.Moves)
-		_ = fi
+	total := 0
+	for _, f := range job.Features {
+		total += len(bandedLevels(fp.top, f.Depth, job.Tool.FluteLength))
+	}
+	done := 0
+	// The other cores plan later features ahead.
+	err = bandedAhead(ctx, b, fp, runtime.GOMAXPROCS(0)-1, func(fi int, sum FeatureSummary) {
 		plan.Features = append(plan.Features, sum)
+		for range sum.Levels {
+			done++
+			if opts.Progress != nil {
+				opts.Progress(done, total)
+			}
+		}
+	})
+	if err != nil {
+		return nil, err
 	}
 	plan.Path = b.path
 	for i := range plan.Features {
@@ -198,6 +163,157 @@ func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error
 		}
 	}
 	return plan, nil
+}
+
+// bandedFeatureParams is what every feature of one banded plan shares.
+type bandedFeatureParams struct {
+	job             *Job
+	st              bandedSettings
+	tol, top, clear float64
+}
+
+// bandedParams gathers what the features of a banded plan of job share.
+func bandedParams(job *Job, st bandedSettings, opts BandedOptions) bandedFeatureParams {
+	fp := bandedFeatureParams{job: job, st: st, tol: opts.Tolerance, top: job.Stock.Top}
+	if fp.tol <= 0 {
+		fp.tol = DefaultTolerance
+	}
+	fp.clear = fp.top + job.Clearance
+	if job.Clearance <= 0 {
+		fp.clear = fp.top + 5
+	}
+	return fp
+}
+
+// bandedFeature plans feature fi and appends its moves to b, ending with
+// the retract to the clearance height.
+func bandedFeature(ctx context.Context, b *builder, fp bandedFeatureParams, fi int) (FeatureSummary, error) {
+	job, st, f := fp.job, fp.st, fp.job.Features[fi]
+	sum := FeatureSummary{Name: f.Name, Depth: f.Depth, First: len(b.path.Moves)}
+	b.path.Ops = append(b.path.Ops, geom.Operation{Name: f.Name, First: len(b.path.Moves)})
+	dom, open, err := bandedDomain(job, f, st, fp.tol)
+	if err != nil {
+		return sum, fmt.Errorf("banded: feature %q: %w", f.Name, err)
+	}
+	sum.Open = open
+	inStock, _ := geom.Intersection(f.Region, job.Stock.Outline)
+	sum.Area = inStock.Area()
+	if len(dom) == 0 {
+		return sum, &JobError{Feature: f.Name, Msg: "too narrow for this tool"}
+	}
+	for i := range dom {
+		// The raster's size is known before the costly split.
+		if err := checkRasterBudget(f.Name, dom[i].c.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
+			return sum, fmt.Errorf("banded: %w", err)
+		}
+		z, err := bandedSplit(ctx, dom[i], st, fp.tol)
+		if err != nil {
+			return sum, fmt.Errorf("banded: feature %q: %w", f.Name, err)
+		}
+		dom[i].zones = z
+	}
+	levels := bandedLevels(fp.top, f.Depth, job.Tool.FluteLength)
+	sum.Levels = levels
+	levelTop := fp.top
+	for li, z := range levels {
+		for _, comp := range dom {
+			if err := bandedLevel(ctx, b, job, comp, z, levelTop, fp.clear, st, &sum); err != nil {
+				return sum, fmt.Errorf("banded: feature %q level %d: %w", f.Name, li+1, err)
+			}
+		}
+		levelTop = z
+	}
+	// Retract between features.
+	b.feed(geom.Lift, p3(b.pos.XY(), fp.clear), st.feed)
+	sum.End = len(b.path.Moves)
+	return sum, nil
+}
+
+// bandedAhead plans every feature of fp.job onto b, in order, calling
+// emit with each feature's summary as it lands. Where the machine has more
+// than one core, later features are planned ahead, in parallel, from an
+// unknown start at the clearance height: a feature's path does not depend
+// on where the tool comes from unless it starts in the air nearest to it
+// (errStartUnknown), and such a feature is planned again once the start is
+// known. The result is the same, move for move, as planning in order.
+// Features whose raster is large are not planned ahead, so that at most
+// one large raster is held at a time.
+//
+// workers is the number of goroutines that plan ahead; 0 plans in order.
+func bandedAhead(ctx context.Context, b *builder, fp bandedFeatureParams, workers int, emit func(int, FeatureSummary)) error {
+	n := len(fp.job.Features)
+	type result struct {
+		b   *builder
+		sum FeatureSummary
+		err error
+	}
+	res := make([]chan result, n)
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	workers = min(workers, n-1)
+	if workers > 0 {
+		todo := make(chan int, n)
+		for fi := 1; fi < n; fi++ {
+			if bandedAheadFits(fp, fi) {
+				res[fi] = make(chan result, 1)
+				todo <- fi
+			}
+		}
+		close(todo)
+		var wg sync.WaitGroup
+		defer wg.Wait()
+		for w := 0; w < workers; w++ {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for fi := range todo {
+					sb := newGuessBuilder(fp.clear)
+					sum, err := bandedFeature(ctx, sb, fp, fi)
+					res[fi] <- result{sb, sum, err}
+				}
+			}()
+		}
+	}
+	for fi := 0; fi < n; fi++ {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		if res[fi] != nil {
+			var r result
+			select {
+			case r = <-res[fi]:
+			case <-ctx.Done():
+				return ctx.Err()
+			}
+			if r.err != nil && !errors.Is(r.err, errStartUnknown) {
+				return r.err
+			}
+			if r.err == nil {
+				before := len(b.path.Moves)
+				if shift, ok := b.appendPlanned(r.b); ok {
+					r.sum.First, r.sum.End = before, r.sum.End+shift
+					emit(fi, r.sum)
+					continue
+				}
+			}
+		}
+		sum, err := bandedFeature(ctx, b, fp, fi)
+		if err != nil {
+			return err
+		}
+		emit(fi, sum)
+	}
+	return nil
+}
+
+// bandedAheadFits reports whether feature fi may be planned ahead: its
+// raster, estimated from the feature's bounds grown by the reach of its
+// domain, stays below a quarter of MaxRasterBytes.
+func bandedAheadFits(fp bandedFeatureParams, fi int) bool {
+	bb := fp.job.Features[fi].Region.Bounds()
+	g := 2 * fp.st.r
+	bb.Min, bb.Max = bb.Min.Sub(geom.Pt(g, g)), bb.Max.Add(geom.Pt(g, g))
+	return bandedRasterBytes(bb, fp.st.h, fp.st.r+2*fp.st.h, 0) < MaxRasterBytes/4
 }
 
 // opLength returns the length of moves [first, end) of tp.
@@ -375,10 +491,14 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 			start = append(start, spiralFront{pts: pts, closed: true, steps: spiralSteps(pts, true, p)})
 		}
 		// Start in the air at the swept node nearest the tool.
+		from, err := b.where()
+		if err != nil {
+			return err
+		}
 		bk, bd := -1, math.Inf(1)
 		for k, r := range g.reached {
 			if r {
-				if d := g.pt(k).Dist(b.pos.XY()); d < bd {
+				if d := g.pt(k).Dist(from); d < bd {
 					bk, bd = k, d
 				}
 			}
@@ -388,7 +508,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		} else {
 			// A part thinner than the raster has no node in the air;
 			// a vertex of its outline outside the grown stock will do.
-			pos, inAir = bandedAirVertex(comp.c, grown, b.pos.XY())
+			pos, inAir = bandedAirVertex(comp.c, grown, from)
 		}
 	}
 	if inAir {

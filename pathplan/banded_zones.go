@@ -181,10 +181,14 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 	approachZ := levelTop + st.safe
 	if airFronts[first] != nil {
 		gb := grids[first]
+		from, err := b.where()
+		if err != nil {
+			return err
+		}
 		bk, bd := -1, math.Inf(1)
 		for k, r := range gb.reached {
 			if r {
-				if d := gb.pt(k).Dist(b.pos.XY()); d < bd {
+				if d := gb.pt(k).Dist(from); d < bd {
 					bk, bd = k, d
 				}
 			}

@@ -1,6 +1,7 @@
 package pathplan
 
 import (
+	"errors"
 	"math"
 
 	"github.com/chipband/chipband/geom"
@@ -91,14 +92,73 @@ func (p *Plan) LengthByKind() map[geom.MoveKind]float64 {
 type builder struct {
 	path geom.Toolpath
 	pos  geom.Point3
+	// guess marks a builder whose start is not known yet (a later
+	// feature planned ahead, see newGuessBuilder): until its first move
+	// the tool stands at an unknown point at the clearance height.
+	guess bool
+}
+
+// errStartUnknown is returned by a plan made ahead that needs to know where
+// the tool stands before its first move.
+var errStartUnknown = errors.New("start position not known yet")
+
+// newGuessBuilder returns a builder for a feature planned ahead of the
+// features before it: the tool stands somewhere at height clear. Moves
+// straight up to clear from there are dropped (the real start, at clear
+// after the retract that ends every feature, would elide them too), and the
+// first move is always kept; appendPlanned settles both once the start is
+// known.
+func newGuessBuilder(clear float64) *builder {
+	nan := math.NaN()
+	return &builder{pos: geom.Point3{X: nan, Y: nan, Z: clear}, guess: true}
+}
+
+// where returns where the tool stands, or errStartUnknown before the first
+// move of a builder made by newGuessBuilder.
+func (b *builder) where() (geom.Point, error) {
+	if b.guess && len(b.path.Moves) == 0 {
+		return geom.Point{}, errStartUnknown
+	}
+	return b.pos.XY(), nil
 }
 
 func (b *builder) add(m geom.Move) {
+	if b.guess && len(b.path.Moves) == 0 && math.IsNaN(m.To.X) && m.To.Z == b.pos.Z && !m.Arc {
+		return // up from the unknown start to where it already is
+	}
 	if !m.Arc && m.To == b.pos {
 		return
 	}
 	b.path.Moves = append(b.path.Moves, m)
 	b.pos = m.To
+}
+
+// appendPlanned appends the moves and operations of s, planned ahead by a
+// builder from newGuessBuilder, as if they had been planned here: the first
+// move is elided when it goes where the tool already stands. It returns the
+// index shift of s's moves, or false when s holds a move that read the
+// unknown start (NaN), which must then be planned again from here.
+func (b *builder) appendPlanned(s *builder) (int, bool) {
+	for _, m := range s.path.Moves {
+		if math.IsNaN(m.To.X) || math.IsNaN(m.To.Y) || math.IsNaN(m.Center.X) || math.IsNaN(m.Center.Y) {
+			return 0, false
+		}
+	}
+	moves := s.path.Moves
+	skip := 0
+	if len(moves) > 0 && !moves[0].Arc && moves[0].To == b.pos {
+		skip = 1
+	}
+	shift := len(b.path.Moves) - skip
+	for _, op := range s.path.Ops {
+		op.First = max(len(b.path.Moves), op.First+shift)
+		b.path.Ops = append(b.path.Ops, op)
+	}
+	b.path.Moves = append(b.path.Moves, moves[skip:]...)
+	if len(moves) > 0 {
+		b.pos = s.pos
+	}
+	return shift, true
 }
 
 func (b *builder) rapid(to geom.Point3) { b.add(geom.Move{Kind: geom.Rapid, To: to}) }

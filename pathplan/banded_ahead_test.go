@@ -1,0 +1,120 @@
+package pathplan
+
+import (
+	"context"
+	"errors"
+	"reflect"
+	"testing"
+
+	"github.com/chipband/chipband/geom"
+)
+
+// planAhead plans job's features through bandedAhead with the given number
+// of workers, without verification.
+func planAhead(t *testing.T, job *Job, workers int) (geom.Toolpath, []FeatureSummary) {
+	t.Helper()
+	st, err := bandedSetup(job, BandedOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fp := bandedParams(job, st, BandedOptions{})
+	b := &builder{}
+	b.path.Start = geom.Point3{Z: fp.clear}
+	b.pos = b.path.Start
+	var sums []FeatureSummary
+	err = bandedAhead(context.Background(), b, fp, workers, func(_ int, s FeatureSummary) { sums = append(sums, s) })
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b.path, sums
+}
+
+// TestBandedAheadMatchesInOrder checks that planning later features ahead,
+// in parallel, gives the same path move for move and the same summaries as
+// planning them in order. The jobs hold closed features planned ahead and
+// open ones that need the start and are planned again.
+func TestBandedAheadMatchesInOrder(t *testing.T) {
+	jobs := map[string]*Job{"demo": DemoJob()}
+	for _, f := range []string{"deep_open.json", "two_depths.json"} {
+		j, err := LoadJob("../testdata/jobs/" + f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		jobs[f] = j
+	}
+	for name, job := range jobs {
+		t.Run(name, func(t *testing.T) {
+			t.Parallel()
+			want, wantSums := planAhead(t, job, 0)
+			for _, w := range []int{1, 3} {
+				got, gotSums := planAhead(t, job, w)
+				if !reflect.DeepEqual(got, want) {
+					t.Errorf("workers %d: path differs from the one planned in order (%d vs %d moves)", w, len(got.Moves), len(want.Moves))
+				}
+				if !reflect.DeepEqual(gotSums, wantSums) {
+					t.Errorf("workers %d: summaries differ:\n got %+v\nwant %+v", w, gotSums, wantSums)
+				}
+			}
+		})
+	}
+}
+
+// TestBandedAheadNeedsStart checks which features can be planned ahead: an
+// open feature starts in the air nearest the tool and so needs to know
+// where the tool stands; a closed one enters by a helix at its deepest
+// point wherever the tool comes from.
+func TestBandedAheadNeedsStart(t *testing.T) {
+	for _, c := range []struct {
+		file    string
+		feature int
+		open    bool
+	}{
+		{"deep_open.json", 1, true},
+		{"two_depths.json", 1, false},
+	} {
+		job, err := LoadJob("../testdata/jobs/" + c.file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := bandedSetup(job, BandedOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		fp := bandedParams(job, st, BandedOptions{})
+		_, err = bandedFeature(context.Background(), newGuessBuilder(fp.clear), fp, c.feature)
+		if got := errors.Is(err, errStartUnknown); got != c.open {
+			t.Errorf("%s feature %d: start needed = %v (err %v), want %v", c.file, c.feature, got, err, c.open)
+		}
+	}
+}
+
+// TestAppendPlanned checks the stitching of a path planned ahead: a first
+// rapid to where the tool already stands is elided, as the builder would
+// have done, and operation indices shift with the moves.
+func TestAppendPlanned(t *testing.T) {
+	b := &builder{}
+	b.rapid(geom.Point3{X: 1, Y: 2, Z: 5})
+	s := newGuessBuilder(5)
+	s.path.Ops = append(s.path.Ops, geom.Operation{Name: "f", First: 0})
+	s.rapid(geom.Point3{X: s.pos.X, Y: s.pos.Y, Z: 5}) // up from the unknown start: dropped
+	s.rapid(geom.Point3{X: 1, Y: 2, Z: 5})             // where b stands: kept here, elided there
+	s.feed(geom.Feed, geom.Point3{X: 1, Y: 2, Z: -1}, 100)
+	if len(s.path.Moves) != 2 {
+		t.Fatalf("guess builder kept %d moves, want 2", len(s.path.Moves))
+	}
+	shift, ok := b.appendPlanned(s)
+	if !ok {
+		t.Fatal("appendPlanned refused a path without NaN")
+	}
+	if len(b.path.Moves) != 2 || b.path.Moves[1].To.Z != -1 {
+		t.Fatalf("moves after append: %+v", b.path.Moves)
+	}
+	if shift != 0 || b.path.Ops[0].First != 1 || b.pos.Z != -1 {
+		t.Errorf("shift %d, op first %d, pos %+v; want 0, 1, z −1", shift, b.path.Ops[0].First, b.pos)
+	}
+	bad := newGuessBuilder(5)
+	bad.feed(geom.Feed, geom.Point3{X: bad.pos.X, Y: 0, Z: 0}, 100)
+	if _, ok := (&builder{}).appendPlanned(bad); ok {
+		t.Error("appendPlanned took a move that read the unknown start")
+	}
+}
