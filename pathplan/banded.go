@@ -120,6 +120,13 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // where the engagement leaves the band, its feed is lowered to hold the
 // chip load (see BandedOptions.NoVerify); BandedReport measures the path.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
+	// The other cores plan later features ahead.
+	return planBanded(ctx, job, opts, runtime.GOMAXPROCS(0)-1)
+}
+
+// planBanded is PlanBanded with workers goroutines planning features
+// ahead (see bandedAhead); 0 plans them in order.
+func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) (*Plan, error) {
 	if job == nil {
 		return nil, errors.New("banded: no job")
 	}
@@ -140,8 +147,7 @@ func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error
 		total += len(bandedLevels(fp.top, f.Depth, job.Tool.FluteLength))
 	}
 	done := 0
-	// The other cores plan later features ahead.
-	err = bandedAhead(ctx, b, fp, runtime.GOMAXPROCS(0)-1, func(fi int, sum FeatureSummary) {
+	err = bandedAhead(ctx, b, fp, workers, func(fi int, sum FeatureSummary) {
 		plan.Features = append(plan.Features, sum)
 		for range sum.Levels {
 			done++
