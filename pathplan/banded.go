@@ -51,8 +51,31 @@ type bandedSettings struct {
 	safe           float64 // height above a level's top at which rapids stop, mm
 	climbOnly      bool
 	// pitches caches trochoidHeldPitch by loop radius (0.5 mm steps) for
-	// the whole plan.
-	pitches map[int]float64
+	// the whole plan, shared by the features planned in parallel.
+	pitches *pitchCache
+}
+
+// pitchCache holds trochoid pitches by key; safe for concurrent use. Its
+// values depend on the key alone, so the order in which goroutines fill it
+// does not change a plan.
+type pitchCache struct {
+	mu sync.Mutex
+	m  map[int]float64
+}
+
+// get returns the pitch of key, computing it with f the first time.
+func (c *pitchCache) get(key int, f func() float64) float64 {
+	c.mu.Lock()
+	v, ok := c.m[key]
+	c.mu.Unlock()
+	if ok {
+		return v
+	}
+	v = f()
+	c.mu.Lock()
+	c.m[key] = v
+	c.mu.Unlock()
+	return v
 }
 
 // bandedSetup derives the banded cut data from the job.
@@ -104,7 +127,7 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 	}
 	s.safe = 1
 	s.climbOnly = opt.ClimbOnly
-	s.pitches = map[int]float64{}
+	s.pitches = &pitchCache{m: map[int]float64{}}
 	return s, nil
 }
 

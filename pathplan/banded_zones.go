@@ -227,16 +227,13 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 		// floored to 0.5 mm is safe for the loop; the few values are kept
 		// for the whole plan.
 		key := int(math.Floor(rt / 0.5))
-		if v, ok := st.pitches[key]; ok {
-			return v
-		}
-		rq := 0.5 * float64(key)
-		if key == 0 {
-			rq = 0.25
-		}
-		v := trochoidHeldPitch(st.r, rq, phiMax)
-		st.pitches[key] = v
-		return v
+		return st.pitches.get(key, func() float64 {
+			rq := 0.5 * float64(key)
+			if key == 0 {
+				rq = 0.25
+			}
+			return trochoidHeldPitch(st.r, rq, phiMax)
+		})
 	}
 	merge := func(gb *bandedGrid) {
 		for k, r := range gb.reached {
