@@ -246,7 +246,7 @@ func bandedFeature(ctx context.Context, b *builder, fp bandedFeatureParams, fi i
 	levelTop := fp.top
 	for li, z := range levels {
 		for _, comp := range dom {
-			if err := bandedLevel(ctx, b, job, comp, z, levelTop, fp.clear, st, &sum); err != nil {
+			if err := bandedLevel(ctx, b, job, fi, comp, z, levelTop, fp.clear, st, &sum); err != nil {
 				return sum, fmt.Errorf("banded: feature %q level %d: %w", f.Name, li+1, err)
 			}
 		}
@@ -464,10 +464,11 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 	return out, open, nil
 }
 
-// bandedLevel plans one domain part at one level and appends its moves.
-func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
+// bandedLevel plans one domain part of feature fi at one level and appends
+// its moves.
+func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedComp, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
 	if comp.zones != nil {
-		return bandedZoned(ctx, b, job, comp, comp.zones, z, levelTop, clear, st, sum)
+		return bandedZoned(ctx, b, job, fi, comp, comp.zones, z, levelTop, clear, st, sum)
 	}
 	// In a closed part the fronts stop a target step short of the walls
 	// (fc): the last pass along the walls then takes that step, in the
@@ -493,7 +494,6 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	var start []spiralFront
 	var pos geom.Point
 	inAir := false
-	approachZ := levelTop + st.safe
 	if comp.open {
 		grown, err := offset.Offset(job.Stock.Outline, st.r+0.01, DefaultTolerance)
 		if err != nil {
@@ -555,6 +555,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 		}
 		g.markDisk(c, hr)
 		g.stampDisk(c, hr)
+		approachZ := bandedEntryTop(job, fi, c, hr, levelTop, st) + st.safe
 		circ := geom.Circle(c, hr, max(24, int(2*math.Pi*hr/st.h)))
 		// Clockwise, material outside on the left.
 		pts := append(circ.Reversed(), circ.Reversed()[0])
@@ -572,6 +573,30 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, comp bandedComp, z, 
 	}
 	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
+}
+
+// bandedEntryTop returns the top of the material a helix of radius hr
+// about c meets at a level whose top is levelTop. An earlier feature whose
+// region holds the whole column the tool sweeps (radius hr + r, plus the
+// wall allowance and a margin of 0.1 mm) has cut it down to that feature's
+// floor, so the helix may start there instead of
+// cutting air from levelTop. Later features have not cut yet.
+//
+// Why the column is clear: every point p within hr + r of c lies within r
+// of the point q on the way from c to p at max(0, |p−c| − r) from c, and q
+// lies at least r + allowance + tol inside the region, so in that feature's
+// tool-centre domain, which its fronts sweep whole (the uncut material they
+// leave lies in corners, against walls). The margin covers the chord
+// tolerance of the domain and the raster.
+func bandedEntryTop(job *Job, fi int, c geom.Point, hr, levelTop float64, st bandedSettings) float64 {
+	top := levelTop
+	need := hr + st.r + job.Cut.Allowance + 0.1
+	for _, e := range job.Features[:fi] {
+		if e.Region.Contains(c) && e.Region.DistanceToBoundary(c) >= need {
+			top = math.Min(top, job.Stock.Top-e.Depth)
+		}
+	}
+	return top
 }
 
 // bandedAirVertex returns the vertex of c's outline nearest to from that

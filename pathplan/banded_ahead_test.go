@@ -3,6 +3,7 @@ package pathplan
 import (
 	"context"
 	"errors"
+	"math"
 	"reflect"
 	"testing"
 
@@ -116,5 +117,56 @@ func TestAppendPlanned(t *testing.T) {
 	bad.feed(geom.Feed, geom.Point3{X: bad.pos.X, Y: 0, Z: 0}, 100)
 	if _, ok := (&builder{}).appendPlanned(bad); ok {
 		t.Error("appendPlanned took a move that read the unknown start")
+	}
+}
+
+// TestBandedHelixStartsOnEarlierFloor checks that a helix starts just
+// above the floor an earlier feature has cut where that feature's region
+// holds the whole column the helix sweeps, and at the stock top where it
+// does not. two_depths: the deep pocket's helix (radius 1.5, tool radius 3)
+// about (75, 40) lies 5 mm inside the 3 mm counterbore, so its column of
+// radius 4.5 is clear to z = −3 (elementary geometry); moved 1 mm nearer
+// the counterbore's edge, it is not. The rapids are checked against the
+// material by simulation (engage).
+func TestBandedHelixStartsOnEarlierFloor(t *testing.T) {
+	for _, c := range []struct {
+		shift float64 // the counterbore's right edge moves by this, mm
+		want  float64 // height of the first helix move's start
+	}{
+		{0, -3 + 1},
+		{-1, 0 + 1},
+	} {
+		job, err := LoadJob("../testdata/jobs/two_depths.json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.shift != 0 {
+			x := 80 + c.shift
+			job.Features[0].Region = geom.Shape{geom.Region{Outer: geom.Ring{{X: 20, Y: 20}, {X: x, Y: 20}, {X: x, Y: 60}, {X: 20, Y: 60}}}}
+		}
+		p, err := PlanBanded(context.Background(), job, BandedOptions{NoVerify: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f := p.Features[1]
+		var start float64
+		found := false
+		for i := f.First; i < f.End; i++ {
+			if p.Path.Moves[i].Kind == geom.Entry {
+				start = p.Path.Moves[i-1].To.Z
+				found = true
+				break
+			}
+		}
+		if !found {
+			t.Fatalf("shift %g: the deep pocket has no entry", c.shift)
+		}
+		if math.Abs(start-c.want) > 1e-9 {
+			t.Errorf("shift %g: helix starts at z %.4f, want %.4f", c.shift, start, c.want)
+		}
+		s := simulate(t, job, p).Summary
+		if len(s.RapidViolations) > 0 {
+			t.Errorf("shift %g: %d rapid(s) through material, first at %v", c.shift, len(s.RapidViolations), s.RapidViolations[0].At)
+		}
 	}
 }

@@ -134,7 +134,7 @@ func bandedDiskFront(c geom.Point, rad float64, p spiralParams) spiralFront {
 // by its own helix instead; dead-end channels are left back along the spine. A last
 // pass along the walls of the whole part takes the cusps of loops and
 // fronts.
-func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zones *offset.Zones, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
+func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedComp, zones *offset.Zones, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) error {
 	if err := checkRasterBudget(sum.Name, comp.c.Bounds(), st.h, st.r+2*st.h, len(zones.Bays)); err != nil {
 		return err
 	}
@@ -178,7 +178,6 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 	}
 	var start []spiralFront
 	var pos geom.Point
-	approachZ := levelTop + st.safe
 	if airFronts[first] != nil {
 		gb := grids[first]
 		from, err := b.where()
@@ -213,10 +212,11 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 		f := bandedDiskFront(bay.Deepest, hr, p)
 		start = []spiralFront{f}
 		pos = f.pts[0]
+		az := bandedEntryTop(job, fi, bay.Deepest, hr, levelTop, st) + st.safe
 		b.rapid(p3(b.pos.XY(), clear))
 		b.rapid(p3(pos, clear))
-		b.rapid(p3(pos, approachZ))
-		bandedHelix(b, bay.Deepest, hr, approachZ, z, st)
+		b.rapid(p3(pos, az))
+		bandedHelix(b, bay.Deepest, hr, az, z, st)
 		sum.Entries++
 	}
 	var pieces []bandedPiece
@@ -314,10 +314,11 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, comp bandedComp, zon
 					g.stampDisk(bay.Deepest, hr)
 					f := bandedDiskFront(bay.Deepest, hr, p)
 					pos = f.pts[0]
+					az := bandedEntryTop(job, fi, bay.Deepest, hr, levelTop, st) + st.safe
 					b.rapid(p3(b.pos.XY(), clear))
 					b.rapid(p3(pos, clear))
-					b.rapid(p3(pos, approachZ))
-					bandedHelix(b, bay.Deepest, hr, approachZ, z, st)
+					b.rapid(p3(pos, az))
+					bandedHelix(b, bay.Deepest, hr, az, z, st)
 					sum.Entries++
 					if err := clearBay(other, []spiralFront{f}); err != nil {
 						return err
