@@ -170,3 +170,32 @@ func TestBandedHelixStartsOnEarlierFloor(t *testing.T) {
 		}
 	}
 }
+
+// TestBandedProgress checks that Options.Progress counts levels done over
+// the whole plan, as it documents: one call per level, rising by one, the
+// last with done == total.
+func TestBandedProgress(t *testing.T) {
+	job, err := LoadJob("../testdata/jobs/two_depths.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var calls [][2]int
+	opts := BandedOptions{NoVerify: true}
+	opts.Progress = func(done, total int) { calls = append(calls, [2]int{done, total}) }
+	p, err := PlanBanded(context.Background(), job, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	levels := 0
+	for _, f := range p.Features {
+		levels += len(f.Levels)
+	}
+	if len(calls) != levels {
+		t.Fatalf("%d progress calls for %d levels: %v", len(calls), levels, calls)
+	}
+	for i, c := range calls {
+		if c != [2]int{i + 1, levels} {
+			t.Errorf("call %d: %v, want [%d %d]", i, c, i+1, levels)
+		}
+	}
+}
