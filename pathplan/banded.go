@@ -230,6 +230,13 @@ func bandedFeature(ctx context.Context, b *builder, fp bandedFeatureParams, fi i
 	if len(dom) == 0 {
 		return sum, &JobError{Feature: f.Name, Msg: "too narrow for this tool"}
 	}
+	if dom[0].open {
+		// It starts in the air nearest the tool: planned ahead, say so
+		// before the costly split.
+		if _, err := b.where(); err != nil {
+			return sum, err
+		}
+	}
 	for i := range dom {
 		// The raster's size is known before the costly split.
 		if err := checkRasterBudget(f.Name, dom[i].c.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
@@ -296,6 +303,10 @@ func bandedAhead(ctx context.Context, b *builder, fp bandedFeatureParams, worker
 			go func() {
 				defer wg.Done()
 				for fi := range todo {
+					if err := ctx.Err(); err != nil {
+						res[fi] <- result{err: err}
+						continue
+					}
 					sb := newGuessBuilder(fp.clear)
 					sum, err := bandedFeature(ctx, sb, fp, fi)
 					res[fi] <- result{sb, sum, err}
