@@ -169,9 +169,22 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 	for _, f := range job.Features {
 		total += len(bandedLevels(fp.top, f.Depth, job.Tool.FluteLength))
 	}
+	// The verification simulates each feature as it lands, while later
+	// features are still being planned.
+	var ver *bandedVerifier
+	if !opts.NoVerify && bandedRepairs(job) {
+		ver = startBandedVerifier(ctx, job)
+	}
 	done := 0
 	err = bandedAhead(ctx, b, fp, workers, func(fi int, sum FeatureSummary) {
 		plan.Features = append(plan.Features, sum)
+		if ver != nil {
+			start := b.path.Start
+			if sum.First > 0 {
+				start = b.path.Moves[sum.First-1].To
+			}
+			ver.add(fi, start, b.path.Moves[sum.First:sum.End])
+		}
 		for range sum.Levels {
 			done++
 			if opts.Progress != nil {
@@ -179,6 +192,14 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 			}
 		}
 	})
+	var worst []map[int]float64
+	if ver != nil {
+		w, verr := ver.wait(err != nil)
+		if err == nil && verr != nil {
+			return nil, fmt.Errorf("banded: verify: %w", verr)
+		}
+		worst = w
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -186,12 +207,75 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 	for i := range plan.Features {
 		plan.Features[i].Length = opLength(&plan.Path, plan.Features[i].First, plan.Features[i].End)
 	}
-	if !opts.NoVerify {
-		if err := bandedRepairFeeds(ctx, plan); err != nil {
-			return nil, fmt.Errorf("banded: verify: %w", err)
-		}
+	for fi, w := range worst {
+		bandedApplyRepair(plan, fi, w)
 	}
 	return plan, nil
+}
+
+// bandedVerifier simulates the features of a banded plan in order, on one
+// goroutine, as they are handed to it, and keeps each feature's worst
+// out-of-band chips for bandedApplyRepair. The simulation reads only the
+// moves' geometry and their own feeds, and the repair changes only the
+// feeds of the feature simulated, so this gives what simulating the
+// finished plan would.
+type bandedVerifier struct {
+	in     chan bandedLanded
+	cancel context.CancelFunc
+	done   chan struct{}
+	worst  []map[int]float64
+	err    error
+}
+
+// bandedLanded is one feature handed to the verifier, its moves copied.
+type bandedLanded struct {
+	fi    int
+	start geom.Point3
+	moves []geom.Move
+}
+
+func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
+	ctx, cancel := context.WithCancel(ctx)
+	v := &bandedVerifier{
+		in:     make(chan bandedLanded, len(job.Features)),
+		cancel: cancel,
+		done:   make(chan struct{}),
+		worst:  make([]map[int]float64, len(job.Features)),
+	}
+	go func() {
+		defer close(v.done)
+		sim, err := newBandedSim(job)
+		v.err = err
+		for l := range v.in {
+			if v.err != nil {
+				continue
+			}
+			res, err := sim.feature(ctx, l.fi, l.start, l.moves, false)
+			if err != nil {
+				v.err = err
+				continue
+			}
+			v.worst[l.fi] = bandedWorstChips(job, res)
+		}
+	}()
+	return v
+}
+
+// add hands feature fi's moves, which start at start, to the verifier.
+func (v *bandedVerifier) add(fi int, start geom.Point3, moves []geom.Move) {
+	v.in <- bandedLanded{fi, start, append([]geom.Move(nil), moves...)}
+}
+
+// wait ends the verification (at once when abort is set) and returns the
+// worst chips of every feature, or the first error.
+func (v *bandedVerifier) wait(abort bool) ([]map[int]float64, error) {
+	if abort {
+		v.cancel()
+	}
+	close(v.in)
+	<-v.done
+	v.cancel()
+	return v.worst, v.err
 }
 
 // bandedFeatureParams is what every feature of one banded plan shares.

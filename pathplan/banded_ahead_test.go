@@ -199,3 +199,41 @@ func TestBandedProgress(t *testing.T) {
 		}
 	}
 }
+
+// TestBandedVerifyAsFeaturesLand checks that verifying each feature as it
+// lands, while later ones are planned, repairs the plan exactly as
+// simulating the finished plan does (bandedRepairFeeds): the same feeds,
+// summaries and warnings.
+func TestBandedVerifyAsFeaturesLand(t *testing.T) {
+	job, err := LoadJob("../testdata/jobs/two_depths.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := PlanBanded(context.Background(), job, BandedOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := PlanBanded(context.Background(), job, BandedOptions{NoVerify: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := bandedRepairFeeds(context.Background(), want); err != nil {
+		t.Fatal(err)
+	}
+	slowed := 0
+	for _, f := range want.Features {
+		slowed += f.SlowedMoves
+	}
+	if slowed == 0 {
+		t.Fatal("the repair slowed no move: the test shows nothing")
+	}
+	if !reflect.DeepEqual(got.Path, want.Path) {
+		t.Error("paths differ")
+	}
+	if !reflect.DeepEqual(got.Features, want.Features) {
+		t.Errorf("summaries differ:\n got %+v\nwant %+v", got.Features, want.Features)
+	}
+	if !reflect.DeepEqual(got.Warnings, want.Warnings) {
+		t.Errorf("warnings differ:\n got %q\nwant %q", got.Warnings, want.Warnings)
+	}
+}

@@ -21,45 +21,68 @@ import (
 //
 // The other repairs (an extra pass ahead of an overload, a smaller step)
 // are not built: where the band is exceeded, the feed is what changes.
+//
+// PlanBanded does the same feature by feature as each lands, while later
+// features are still being planned (bandedVerifier); this whole-plan form
+// is the reference its test compares with.
 func bandedRepairFeeds(ctx context.Context, plan *Plan) error {
-	job := plan.Job
-	load := job.Cut.ChipLoad
-	if !(load > 0) || !(job.Cut.SpindleRPM > 0) || job.Tool.Flutes <= 0 {
+	if !bandedRepairs(plan.Job) {
 		return nil // no chip load to hold
 	}
-	over := bandedOverLimit(job)
 	return bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
-		fs := &plan.Features[fi]
-		worst := map[int]float64{} // move index in the feature → largest h_max out of band
-		for _, smp := range res.Profile {
-			if smp.Class != engage.Cut || smp.AE <= over*job.Tool.Diameter {
-				continue
-			}
-			if smp.HMax > worst[smp.Move] {
-				worst[smp.Move] = smp.HMax
-			}
-		}
-		from := plan.Path.Start
-		if fs.First > 0 {
-			from = plan.Path.Moves[fs.First-1].To
-		}
-		for i := fs.First; i < fs.End; i++ {
-			mv := &plan.Path.Moves[i]
-			h := worst[i-fs.First]
-			if (mv.Kind == geom.Feed || mv.Kind == geom.Link) && h > load && mv.Feed > 0 {
-				mv.Feed *= load / h
-				fs.SlowedMoves++
-				fs.SlowedLength += geom.MoveLength(from, *mv)
-			}
-			from = mv.To
-		}
-		if fs.SlowedMoves > 0 {
-			plan.Warnings = append(plan.Warnings, fmt.Sprintf(
-				"feature %q: feed lowered on %d moves (%.0f mm of %.0f mm) where the simulated engagement leaves the band and the chip would be thicker than the chip load",
-				fs.Name, fs.SlowedMoves, fs.SlowedLength, fs.Length))
-		}
+		bandedApplyRepair(plan, fi, bandedWorstChips(plan.Job, res))
 		return nil
 	})
+}
+
+// bandedRepairs reports whether job gives the chip load the feed repair
+// holds.
+func bandedRepairs(job *Job) bool {
+	return job.Cut.ChipLoad > 0 && job.Cut.SpindleRPM > 0 && job.Tool.Flutes > 0
+}
+
+// bandedWorstChips returns, from the simulation of one feature, the largest
+// chip h_max of each move (by index in the feature) where the engagement
+// leaves the band.
+func bandedWorstChips(job *Job, res *engage.Result) map[int]float64 {
+	over := bandedOverLimit(job)
+	worst := map[int]float64{}
+	for _, smp := range res.Profile {
+		if smp.Class != engage.Cut || smp.AE <= over*job.Tool.Diameter {
+			continue
+		}
+		if smp.HMax > worst[smp.Move] {
+			worst[smp.Move] = smp.HMax
+		}
+	}
+	return worst
+}
+
+// bandedApplyRepair lowers the feeds of feature fi's moves whose worst
+// chip exceeds the chip load, counts them in its summary and adds the
+// warning.
+func bandedApplyRepair(plan *Plan, fi int, worst map[int]float64) {
+	load := plan.Job.Cut.ChipLoad
+	fs := &plan.Features[fi]
+	from := plan.Path.Start
+	if fs.First > 0 {
+		from = plan.Path.Moves[fs.First-1].To
+	}
+	for i := fs.First; i < fs.End; i++ {
+		mv := &plan.Path.Moves[i]
+		h := worst[i-fs.First]
+		if (mv.Kind == geom.Feed || mv.Kind == geom.Link) && h > load && mv.Feed > 0 {
+			mv.Feed *= load / h
+			fs.SlowedMoves++
+			fs.SlowedLength += geom.MoveLength(from, *mv)
+		}
+		from = mv.To
+	}
+	if fs.SlowedMoves > 0 {
+		plan.Warnings = append(plan.Warnings, fmt.Sprintf(
+			"feature %q: feed lowered on %d moves (%.0f mm of %.0f mm) where the simulated engagement leaves the band and the chip would be thicker than the chip load",
+			fs.Name, fs.SlowedMoves, fs.SlowedLength, fs.Length))
+	}
 }
 
 // bandedOverLimit returns the ae/D above which the banded verification

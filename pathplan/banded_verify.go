@@ -40,50 +40,77 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 // the material left by the features before it, and hands each result to
 // each with the feature's index; profile keeps the per-sample profile.
 func bandedSimEach(ctx context.Context, plan *Plan, summaryOnly bool, each func(fi int, res *engage.Result) error) error {
-	job := plan.Job
-	tool := engage.Tool{Diameter: job.Tool.Diameter, FluteLength: job.Tool.FluteLength, Flutes: job.Tool.Flutes}
-	m, err := engage.NewMaterial(job.Stock.Outline, job.Stock.Top, engage.MaterialOptions{})
-	if err != nil {
-		return fmt.Errorf("simulate: %w", err)
-	}
-	keep, err := bandedKeep(job)
+	sim, err := newBandedSim(plan.Job)
 	if err != nil {
 		return err
-	}
-	band := job.Cut.Band
-	if band[1] <= 0 {
-		band = defaultBand
 	}
 	for fi, fs := range plan.Features {
 		start := plan.Path.Start
 		if fs.First > 0 {
 			start = plan.Path.Moves[fs.First-1].To
 		}
-		tp := &geom.Toolpath{Start: start, Moves: plan.Path.Moves[fs.First:fs.End]}
-		f := job.Features[fi]
-		tgt, err := geom.Intersection(f.Region, job.Stock.Outline)
+		res, err := sim.feature(ctx, fi, start, plan.Path.Moves[fs.First:fs.End], summaryOnly)
 		if err != nil {
 			return err
-		}
-		targets := []engage.Target{{Name: f.Name, Region: tgt, Floor: job.Stock.Top - f.Depth}}
-		if reach, err := bandedReachable(job, f, tgt); err == nil {
-			targets = append(targets, engage.Target{Name: f.Name + " (reachable)", Region: reach, Floor: job.Stock.Top - f.Depth})
-		}
-		res, err := engage.Simulate(ctx, m, tool, tp, engage.SimOptions{
-			Band:        band,
-			SpindleRPM:  job.Cut.SpindleRPM,
-			Keep:        keep,
-			Targets:     targets,
-			SummaryOnly: summaryOnly,
-		})
-		if err != nil {
-			return fmt.Errorf("simulate feature %q: %w", f.Name, err)
 		}
 		if err := each(fi, res); err != nil {
 			return err
 		}
 	}
 	return nil
+}
+
+// bandedSim simulates the features of one job in order on one material.
+type bandedSim struct {
+	job  *Job
+	tool engage.Tool
+	m    *engage.Material
+	keep geom.Shape
+	band [2]float64
+}
+
+func newBandedSim(job *Job) (*bandedSim, error) {
+	m, err := engage.NewMaterial(job.Stock.Outline, job.Stock.Top, engage.MaterialOptions{})
+	if err != nil {
+		return nil, fmt.Errorf("simulate: %w", err)
+	}
+	keep, err := bandedKeep(job)
+	if err != nil {
+		return nil, err
+	}
+	band := job.Cut.Band
+	if band[1] <= 0 {
+		band = defaultBand
+	}
+	tool := engage.Tool{Diameter: job.Tool.Diameter, FluteLength: job.Tool.FluteLength, Flutes: job.Tool.Flutes}
+	return &bandedSim{job: job, tool: tool, m: m, keep: keep, band: band}, nil
+}
+
+// feature simulates the moves of feature fi, from start, on the material
+// the features simulated before it left.
+func (s *bandedSim) feature(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, summaryOnly bool) (*engage.Result, error) {
+	job := s.job
+	tp := &geom.Toolpath{Start: start, Moves: moves}
+	f := job.Features[fi]
+	tgt, err := geom.Intersection(f.Region, job.Stock.Outline)
+	if err != nil {
+		return nil, err
+	}
+	targets := []engage.Target{{Name: f.Name, Region: tgt, Floor: job.Stock.Top - f.Depth}}
+	if reach, err := bandedReachable(job, f, tgt); err == nil {
+		targets = append(targets, engage.Target{Name: f.Name + " (reachable)", Region: reach, Floor: job.Stock.Top - f.Depth})
+	}
+	res, err := engage.Simulate(ctx, s.m, s.tool, tp, engage.SimOptions{
+		Band:        s.band,
+		SpindleRPM:  job.Cut.SpindleRPM,
+		Keep:        s.keep,
+		Targets:     targets,
+		SummaryOnly: summaryOnly,
+	})
+	if err != nil {
+		return nil, fmt.Errorf("simulate feature %q: %w", f.Name, err)
+	}
+	return res, nil
 }
 
 // bandedReachable returns the part of target tgt of feature f that the
