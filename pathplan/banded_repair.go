@@ -1,39 +1,25 @@
 package pathplan
 
 import (
-	"context"
 	"fmt"
 
 	"github.com/chipband/chipband/engage"
 	"github.com/chipband/chipband/geom"
 )
 
-// bandedRepairFeeds is the last resort of the banded verification: it
-// simulates the finished plan with engage, feature by feature, and on every
-// cutting move where the simulated engagement leaves the band (ae/D above
-// 1.1 × its maximum, the upper edge the in-band share counts) and the
+// The feed repair is the last resort of the banded verification: each
+// feature is simulated with engage (bandedVerifier, as it lands), and on
+// every cutting move where the simulated engagement leaves the band (ae/D
+// above 1.1 × its maximum, the upper edge the in-band share counts) and the
 // largest chip (engage's h_max = fz·sin of the largest immersion angle met,
-// Altintas 2012, ch. 2, from memory) exceeds the chip load, lowers the feed
-// so that the chip equals the chip load again. The feed is only ever
-// lowered; within the band the feed stays the one set for the target. It records per feature
-// the moves and length slowed and adds a warning naming them; the report
-// and the G-code carry the lowered feeds.
+// Altintas 2012, ch. 2, from memory) exceeds the chip load, the feed is
+// lowered so that the chip equals the chip load again. The feed is only
+// ever lowered; within the band the feed stays the one set for the target.
+// Each feature records the moves and length slowed, a warning names them,
+// and the report and the G-code carry the lowered feeds.
 //
 // The other repairs (an extra pass ahead of an overload, a smaller step)
 // are not built: where the band is exceeded, the feed is what changes.
-//
-// PlanBanded does the same feature by feature as each lands, while later
-// features are still being planned (bandedVerifier); this whole-plan form
-// is the reference its test compares with.
-func bandedRepairFeeds(ctx context.Context, plan *Plan) error {
-	if !bandedRepairs(plan.Job) {
-		return nil // no chip load to hold
-	}
-	return bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
-		bandedApplyRepair(plan, fi, bandedWorstChips(plan.Job, res))
-		return nil
-	})
-}
 
 // bandedRepairs reports whether job gives the chip load the feed repair
 // holds.

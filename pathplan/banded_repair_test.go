@@ -8,6 +8,20 @@ import (
 	"github.com/chipband/chipband/engage"
 )
 
+// bandedRepairFeeds is the feed repair on the finished plan: every feature
+// simulated in order, then repaired. PlanBanded does the same feature by
+// feature as each lands (bandedVerifier); this is the reference its test
+// compares with.
+func bandedRepairFeeds(ctx context.Context, plan *Plan) error {
+	if !bandedRepairs(plan.Job) {
+		return nil // no chip load to hold
+	}
+	return bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
+		bandedApplyRepair(plan, fi, bandedWorstChips(plan.Job, res))
+		return nil
+	})
+}
+
 // TestBandedRepairHoldsChipLoad plans a job with and without the
 // verification and simulates both: without it some cutting samples carry a
 // chip thicker than the chip load where the engagement leaves the band
