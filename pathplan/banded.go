@@ -650,17 +650,12 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		}
 		g.markDisk(c, hr)
 		g.stampDisk(c, hr)
-		approachZ := bandedEntryTop(job, fi, c, hr, levelTop, st) + st.safe
 		circ := geom.Circle(c, hr, max(24, int(2*math.Pi*hr/st.h)))
 		// Clockwise, material outside on the left.
 		pts := append(circ.Reversed(), circ.Reversed()[0])
 		start = []spiralFront{{pts: pts, closed: true, steps: spiralSteps(pts, true, p)}}
 		pos = pts[0]
-		b.rapid(p3(b.pos.XY(), clear))
-		b.rapid(p3(pos, clear))
-		b.rapid(p3(pos, approachZ))
-		bandedHelix(b, c, hr, approachZ, z, st)
-		sum.Entries++
+		bandedHelixEntry(b, job, fi, c, pos, hr, levelTop, z, clear, st, sum)
 	}
 	pieces, _, err := spiralGrow(ctx, g, fc, start, pos, p)
 	if err != nil {
@@ -668,6 +663,18 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	}
 	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
+}
+
+// bandedHelixEntry takes the tool from where it stands, over the clearance
+// height, to pos on the helix of radius hr about c, rapid down to st.safe
+// above the material there (bandedEntryTop) and down the helix to z.
+func bandedHelixEntry(b *builder, job *Job, fi int, c, pos geom.Point, hr, levelTop, z, clear float64, st bandedSettings, sum *FeatureSummary) {
+	az := bandedEntryTop(job, fi, c, hr, levelTop, st) + st.safe
+	b.rapid(p3(b.pos.XY(), clear))
+	b.rapid(p3(pos, clear))
+	b.rapid(p3(pos, az))
+	bandedHelix(b, c, hr, az, z, st)
+	sum.Entries++
 }
 
 // bandedEntryTop returns the top of the material a helix of radius hr

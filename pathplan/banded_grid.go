@@ -31,7 +31,7 @@ type bandedGrid struct {
 	// airStep, while positive, makes the front field the plain distance
 	// from the last front less airStep: a step through cleared space.
 	airStep float64
-	heap    nodeHeap[float64] // scratch of propagate
+	heap    nodeHeap // scratch of propagate
 }
 
 // bandedWalls is the outline of a tool-centre domain in buckets, so that a
@@ -213,14 +213,14 @@ func (s spiralSeg) distParam(p geom.Point) (float64, float64) {
 // nodeHeap is a binary min-heap of raster nodes by distance. It pops
 // equal distances in the same order as container/heap would, without the
 // interface boxing of each entry.
-type nodeHeap[D float32 | float64] struct {
+type nodeHeap struct {
 	k []int32
-	d []D
+	d []float64
 }
 
-func (q *nodeHeap[D]) reset() { q.k, q.d = q.k[:0], q.d[:0] }
+func (q *nodeHeap) reset() { q.k, q.d = q.k[:0], q.d[:0] }
 
-func (q *nodeHeap[D]) push(k int32, d D) {
+func (q *nodeHeap) push(k int32, d float64) {
 	q.k = append(q.k, k)
 	q.d = append(q.d, d)
 	i := len(q.k) - 1
@@ -235,7 +235,7 @@ func (q *nodeHeap[D]) push(k int32, d D) {
 	}
 }
 
-func (q *nodeHeap[D]) pop() (int32, D) {
+func (q *nodeHeap) pop() (int32, float64) {
 	k, d := q.k[0], q.d[0]
 	n := len(q.k) - 1
 	q.k[0], q.d[0] = q.k[n], q.d[n]

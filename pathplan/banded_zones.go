@@ -212,12 +212,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		f := bandedDiskFront(bay.Deepest, hr, p)
 		start = []spiralFront{f}
 		pos = f.pts[0]
-		az := bandedEntryTop(job, fi, bay.Deepest, hr, levelTop, st) + st.safe
-		b.rapid(p3(b.pos.XY(), clear))
-		b.rapid(p3(pos, clear))
-		b.rapid(p3(pos, az))
-		bandedHelix(b, bay.Deepest, hr, az, z, st)
-		sum.Entries++
+		bandedHelixEntry(b, job, fi, bay.Deepest, pos, hr, levelTop, z, clear, st, sum)
 	}
 	var pieces []bandedPiece
 	visited := make([]bool, len(zones.Bays))
@@ -314,12 +309,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 					g.stampDisk(bay.Deepest, hr)
 					f := bandedDiskFront(bay.Deepest, hr, p)
 					pos = f.pts[0]
-					az := bandedEntryTop(job, fi, bay.Deepest, hr, levelTop, st) + st.safe
-					b.rapid(p3(b.pos.XY(), clear))
-					b.rapid(p3(pos, clear))
-					b.rapid(p3(pos, az))
-					bandedHelix(b, bay.Deepest, hr, az, z, st)
-					sum.Entries++
+					bandedHelixEntry(b, job, fi, bay.Deepest, pos, hr, levelTop, z, clear, st, sum)
 					if err := clearBay(other, []spiralFront{f}); err != nil {
 						return err
 					}
