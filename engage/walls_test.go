@@ -119,3 +119,82 @@ func TestInsideCornerStrips(t *testing.T) {
 		})
 	}
 }
+
+// capsule returns the region a tool of radius r sweeps along the segment
+// a–b.
+func capsule(a, b geom.Point, r float64) geom.Shape {
+	u := b.Sub(a).Unit()
+	base := math.Atan2(u.Y, u.X)
+	var ring geom.Ring
+	for k := 0; k <= 180; k++ {
+		t := base - math.Pi/2 + math.Pi*float64(k)/180
+		ring = append(ring, b.Add(geom.Pt(r*math.Cos(t), r*math.Sin(t))))
+	}
+	for k := 0; k <= 180; k++ {
+		t := base + math.Pi/2 + math.Pi*float64(k)/180
+		ring = append(ring, a.Add(geom.Pt(r*math.Cos(t), r*math.Sin(t))))
+	}
+	return geom.Shape{{Outer: ring}}
+}
+
+// TestLeanedPassEnd measures pass ends that meet the line where the passes
+// stop at 30° from the swept side instead of square (pathplan's
+// spiralLeanEnd): straight passes ending on y = 0, each a step δ further
+// along it than the one before, coming in at 150° to +x, so that each takes
+// a layer δ·sin 30° thick. By the same geometry as TestPassEndCrescent the
+// earlier end then lies behind the tool, and φ stays under
+// arccos(1 − 2·0.115) = 39.6° (1.15 × a 10 % band) all the way to the end
+// for a 7.5 % step; square, the end reads 90° + asin(δ/2r).
+func TestLeanedPassEnd(t *testing.T) {
+	r := tool10.Radius()
+	d := 0.075 * tool10.Diameter
+	limit := math.Acos(1-2*0.115) * 180 / math.Pi
+	for _, deg := range []float64{150, 90} {
+		t.Run(fmt.Sprintf("%g°", deg), func(t *testing.T) {
+			a := deg * math.Pi / 180
+			u := geom.Pt(math.Cos(a), math.Sin(a))
+			m, err := NewMaterial(rectShape(-60, -60, 60, 30), 0, MaterialOptions{})
+			noErr(t, err)
+			var swept geom.Shape
+			var ends []geom.Point
+			for j := 0; j < 12; j++ {
+				e := geom.Pt(-float64(j)*d, 0)
+				ends = append(ends, e)
+				sh := capsule(e.Sub(u.Scale(40)), e, r)
+				if swept == nil {
+					swept = sh
+				} else if swept, err = geom.Union(swept, sh); err != nil {
+					t.Fatal(err)
+				}
+			}
+			noErr(t, m.Remove(swept, -5))
+			material := func(p geom.Point) bool {
+				for _, e := range ends {
+					if geom.SegmentDistance(p, e.Sub(u.Scale(40)), e) <= r {
+						return false
+					}
+				}
+				return true
+			}
+			end := geom.Pt(d, 0)
+			var peak float64
+			for s := 6.0; s >= 0; s -= 0.05 {
+				c := end.Sub(u.Scale(s))
+				e := m.Engage(tool10, geom.Point3{X: c.X, Y: c.Y, Z: -5}, u)
+				got := e.Phi * 180 / math.Pi
+				if !near(t, fmt.Sprintf("φ° %.2f mm before the end against the sampled circle", s), got, sampledFrontArc(r, c, u, material), 0.5) {
+					return
+				}
+				peak = math.Max(peak, got)
+			}
+			if deg == 90 {
+				near(t, "φ° at a square end", peak, 90+math.Asin(d/(2*r))*180/math.Pi, 0.5)
+				return
+			}
+			t.Logf("peak φ %.1f°", peak)
+			if peak > limit {
+				t.Errorf("leaned end: φ peaks at %.1f°, above %.1f°", peak, limit)
+			}
+		})
+	}
+}

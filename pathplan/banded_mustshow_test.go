@@ -45,7 +45,6 @@ var bandedMustShowShort = map[string]bool{
 	"two_depths.json/counterbore/max":              true,
 	"two_depths.json/deep pocket/above":            true,
 	"two_depths.json/deep pocket/cycle":            true,
-	"two_depths.json/deep pocket/in-band":          true,
 	"two_depths.json/deep pocket/max":              true,
 }
 

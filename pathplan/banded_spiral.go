@@ -297,6 +297,8 @@ func spiralPrepare(raw []geom.Point, c geom.Shape, p spiralParams) spiralFront {
 	if !closed {
 		pts = spiralExtend(pts, c, p.h, true)
 		pts = spiralExtend(pts, c, p.h, false)
+		pts = spiralLeanEnd(pts, c, p, true)
+		pts = spiralLeanEnd(pts, c, p, false)
 	}
 	f := spiralFront{pts: pts, closed: closed}
 	f.steps = spiralSteps(pts, closed, p)
@@ -827,4 +829,124 @@ func polySmooth(pts []geom.Point, closed bool, iters int) []geom.Point {
 		pass(-0.53)
 	}
 	return cur
+}
+
+// leanAngle is the largest angle, degrees, at which a pass may meet an
+// outer wall of its domain (spiralLeanEnd).
+const leanAngle = 30
+
+// spiralLeanEnd leans the start (or end) of an open front that meets an
+// outer wall of c so that it meets the wall at no more than leanAngle,
+// heading to the swept side (the right of the front's direction: material
+// lies on its left). A pass that ends square to a wall beside the round end
+// of the pass before it meets the crescent between the two ends: its
+// engaged arc rises over the last 0.12·D to 90° + asin(δ/2r) at the end
+// (engage's TestPassEndCrescent, elementary geometry), above any usual band.
+// Met at 30° from the swept side, the end takes a layer half as thick and
+// the earlier end lies behind the tool: the arc then peaks at 34° for a
+// 7.5 % step, under the 39.6° of 1.15 × a 10 % band (TestLeanedPassEnd).
+// The last tool radius lb of the front is sheared along the wall by
+// sw·u², u from 0 to 1 along it, which turns the end's direction from β to
+// the wall to leanAngle when sw = (lb/2)·(sin β/tan(leanAngle) − cos β); on
+// a curved wall each point keeps its distance to the wall. The next fronts
+// follow the leaned cut, so they mostly arrive leaning already. Island
+// walls are left alone: the ends leaned around an island and the fronts
+// then wound about it (demo boss pocket: 36 % more passes, 24 % more time).
+func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool) []geom.Point {
+	n := len(pts)
+	if n < 4 {
+		return pts
+	}
+	lb := math.Min(p.r, 0.3*polyLen(pts))
+	if lb < 2*p.h {
+		return pts
+	}
+	work := pts // the end to lean is work's last point
+	if atStart {
+		work = spiralReversed(pts)
+	}
+	e := work[n-1]
+	if c.DistanceToBoundary(e) > 2*p.h {
+		return pts // the front ends in the open, not at a wall
+	}
+	var wa, wb geom.Point
+	bd, hole := math.Inf(1), false
+	for _, reg := range c {
+		for ri, ring := range reg.Rings() {
+			for i := range ring {
+				a, b := ring[i], ring[(i+1)%len(ring)]
+				if d := geom.ClosestOnSegment(e, a, b).Dist(e); d < bd {
+					bd, wa, wb, hole = d, a, b, ri > 0
+				}
+			}
+		}
+	}
+	if hole || wa == wb {
+		return pts
+	}
+	tau := wb.Sub(wa).Unit()
+	// The direction in which the pass comes in, over half a tool radius.
+	k0 := max(0, n-1-int(math.Ceil(p.r/(2*p.h))))
+	app := e.Sub(work[k0]).Unit()
+	fwd := app // the front's own direction at this end
+	if atStart {
+		fwd = app.Scale(-1)
+	}
+	if tau.Dot(geom.Pt(fwd.Y, -fwd.X)) < 0 {
+		tau = tau.Scale(-1) // along the wall toward the swept side
+	}
+	cb := app.Dot(tau)
+	sb := math.Sqrt(math.Max(0, 1-cb*cb))
+	tmax := math.Tan(leanAngle * math.Pi / 180)
+	if cb > 0 && sb <= tmax*cb+1e-9 {
+		return pts // leaning enough already
+	}
+	sw := lb / 2 * (sb/tmax - cb)
+	if sw <= 0 {
+		return pts
+	}
+	cum := make([]float64, n) // length from each vertex to the end
+	for i := n - 2; i >= 0; i-- {
+		cum[i] = cum[i+1] + work[i+1].Dist(work[i])
+	}
+	// A shear that leaves c (a corner ahead) is halved, twice at most.
+	for try := 0; try < 3; try, sw = try+1, sw/2 {
+		out := append([]geom.Point(nil), work...)
+		ok := true
+		for i := n - 1; i >= 0 && cum[i] < lb; i-- {
+			u := (lb - cum[i]) / lb
+			q := work[i].Add(tau.Scale(sw * u * u))
+			if d0, d1 := c.DistanceToBoundary(work[i]), c.DistanceToBoundary(q); d0 < p.r && d1 > d0+1e-6 && c.Contains(q) {
+				if b, found := nearestOnShape(c, q); found {
+					q = q.Add(b.Sub(q).Unit().Scale(d1 - d0))
+				}
+			}
+			if !c.Contains(q) && c.DistanceToBoundary(q) > 1e-3 {
+				ok = false
+				break
+			}
+			out[i] = q
+		}
+		if ok {
+			if atStart {
+				return spiralReversed(out)
+			}
+			return out
+		}
+	}
+	return pts
+}
+
+// nearestOnShape returns the point of the boundary of c nearest to q.
+func nearestOnShape(c geom.Shape, q geom.Point) (geom.Point, bool) {
+	bd, bp, ok := math.Inf(1), q, false
+	for _, ring := range c.Rings() {
+		for i := range ring {
+			b := geom.ClosestOnSegment(q, ring[i], ring[(i+1)%len(ring)])
+			if d := b.Dist(q); d < bd {
+				bd, bp, ok = d, b, true
+			}
+		}
+	}
+	return bp, ok
 }
