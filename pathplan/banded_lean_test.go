@@ -1,0 +1,95 @@
+package pathplan
+
+import (
+	"math"
+	"testing"
+
+	"github.com/chipband/chipband/geom"
+)
+
+// TestSpiralLeanEnd checks the lean of open front ends onto walls: a
+// straight front square to a straight wall leaves it at 30° from the
+// swept side (material on the front's left), ends on the wall, keeps its
+// far part and stays inside the domain; a front that already leans, one
+// that ends in the open and one that ends on an island are left alone.
+func TestSpiralLeanEnd(t *testing.T) {
+	p := spiralParams{r: 3, h: 0.2}
+	dom := geom.Shape{{Outer: geom.RectRing(0, 0, 40, 20)}}
+	line := func(a, b geom.Point) []geom.Point { return polyResample([]geom.Point{a, b}, p.h, false) }
+	// Elementary geometry: the angle between the last leg and the wall.
+	endAngle := func(pts []geom.Point, atStart bool) float64 {
+		a, b := pts[len(pts)-2], pts[len(pts)-1]
+		if atStart {
+			a, b = pts[1], pts[0]
+		}
+		d := b.Sub(a).Unit()
+		return math.Atan2(math.Abs(d.Y), math.Abs(d.X)) * 180 / math.Pi
+	}
+	t.Run("square to the top wall", func(t *testing.T) {
+		// Up along x = 20: material on the left (−x), swept side +x.
+		pts := line(geom.Pt(20, 5), geom.Pt(20, 20))
+		out := spiralLeanEnd(pts, dom, p, false)
+		if len(out) != len(pts) {
+			t.Fatalf("%d points, want %d", len(out), len(pts))
+		}
+		end := out[len(out)-1]
+		if math.Abs(end.Y-20) > 1e-9 {
+			t.Errorf("end %v left the wall y = 20", end)
+		}
+		if end.X <= 20 {
+			t.Errorf("end %v did not move to the swept side (+x)", end)
+		}
+		// The last segment of the sheared curve is a chord of the end
+		// tangent; at the node spacing it is within a few degrees.
+		t.Logf("end at %v, %.1f° to the wall", end, endAngle(out, false))
+		if a := endAngle(out, false); a > leanAngle+5 || a < leanAngle-10 {
+			t.Errorf("end meets the wall at %.1f°, want about %d°", a, leanAngle)
+		}
+		for i, q := range out {
+			if !dom.Contains(q) && dom.DistanceToBoundary(q) > 1e-3 {
+				t.Errorf("point %d %v outside the domain", i, q)
+			}
+			if q.Y < 20-p.r-1e-9 && q != pts[i] {
+				t.Errorf("point %d moved although a tool radius from the wall", i)
+			}
+		}
+	})
+	t.Run("start on the bottom wall", func(t *testing.T) {
+		// Up from y = 0: at the start the swept side is still +x.
+		pts := line(geom.Pt(20, 0), geom.Pt(20, 15))
+		out := spiralLeanEnd(pts, dom, p, true)
+		if out[0].X <= 20 || math.Abs(out[0].Y) > 1e-9 {
+			t.Errorf("start %v, want on y = 0 moved to +x", out[0])
+		}
+		if a := endAngle(out, true); a > leanAngle+5 {
+			t.Errorf("start meets the wall at %.1f°, want about %d°", a, leanAngle)
+		}
+	})
+	t.Run("already leaning", func(t *testing.T) {
+		// Meets the top wall at 20° heading to +x.
+		a := 20 * math.Pi / 180
+		end := geom.Pt(20, 20)
+		pts := line(end.Sub(geom.Pt(math.Cos(a), math.Sin(a)).Scale(12)), end)
+		out := spiralLeanEnd(pts, dom, p, false)
+		for i := range pts {
+			if out[i] != pts[i] {
+				t.Fatalf("point %d moved", i)
+			}
+		}
+	})
+	t.Run("ends in the open", func(t *testing.T) {
+		pts := line(geom.Pt(20, 5), geom.Pt(20, 12))
+		out := spiralLeanEnd(pts, dom, p, false)
+		if out[len(out)-1] != pts[len(pts)-1] {
+			t.Errorf("end moved to %v", out[len(out)-1])
+		}
+	})
+	t.Run("island wall", func(t *testing.T) {
+		isl := geom.Shape{{Outer: geom.RectRing(0, 0, 40, 20), Holes: []geom.Ring{geom.RectRing(25, 5, 30, 15).Reversed()}}}
+		pts := line(geom.Pt(15, 10), geom.Pt(25, 10))
+		out := spiralLeanEnd(pts, isl, p, false)
+		if out[len(out)-1] != pts[len(pts)-1] {
+			t.Errorf("end on the island moved to %v", out[len(out)-1])
+		}
+	})
+}
