@@ -332,6 +332,14 @@ func bandedFeature(ctx context.Context, b *builder, fp bandedFeatureParams, fi i
 		}
 		dom[i].zones = z
 	}
+	var own geom.Shape
+	for _, comp := range dom {
+		own = append(own, comp.c...)
+	}
+	rest, err := bandedRest(job, fi, own, st, fp.tol)
+	if err != nil {
+		return sum, fmt.Errorf("banded: feature %q: %w", f.Name, err)
+	}
 	levels := bandedLevels(fp.top, f.Depth, job.Tool.FluteLength)
 	sum.Levels = levels
 	levelTop := fp.top
@@ -341,6 +349,7 @@ func bandedFeature(ctx context.Context, b *builder, fp bandedFeatureParams, fi i
 				return sum, fmt.Errorf("banded: feature %q level %d: %w", f.Name, li+1, err)
 			}
 		}
+		bandedEmitRest(b, rest, z, levelTop, fp.clear, st, &sum)
 		levelTop = z
 	}
 	// Retract between features.

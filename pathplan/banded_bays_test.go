@@ -17,8 +17,10 @@ import (
 // with no node in the air to start from. The rest came up in later runs:
 // a shallow feature's corners reachable only from a later, deeper
 // neighbour's space (031b…), fronts that grew into cleared space and
-// stopped (e3c9…, 1b8a…, 096e…), and a lift whose landing leg crossed a
-// wall corner by 0.54 mm (06b4…).
+// stopped (e3c9…, 1b8a…, 096e…), a lift whose landing leg crossed a
+// wall corner by 0.54 mm (06b4…), and a corner of a shallow feature
+// reachable only from an earlier, deeper neighbour's space (e0c7…, 0.64 %
+// uncut before bandedRest).
 func TestBandedBayEntries(t *testing.T) {
 	jobs := []string{
 		"1584dfd405aa2609f882a6ebd5f99e7663553d05130c11be48d66cd00288025fa5181afbaf650db23487f3d178c2144ff3bd3e1836b6c468dff6bf79fae92dc3",
@@ -31,6 +33,7 @@ func TestBandedBayEntries(t *testing.T) {
 		"1b8a2dd0f1ac5a6515fd0b09d6dac3e6b7945b7ac8c9497ae6c5c897de957d0e9ba554c14a86d8011dfbdaf7f74957f9f600d907c11f8e0fb68e99c162eb87b8",
 		"096e96e2d1ad36a82458bd63e0312f39e9413804fb356fa812b9eaccc6061fd5c1848d34e2b2d5b0b1e4158256895dbe2ab10ad6d5bc5f9d64ab271459847c1e",
 		"06b47f4ca7250339b13c24756bb9c1fe95d50a61581eab4c0c52ff1a7c1dc840f9e0a0785a055aeacf0d0b9c0d9ab9cf829cc3735998b587e6b0cc4ecc51a43d",
+		"e0c7f90d9c1b5540328b7b1166079e09025957f66e329edc3b0e74030892a6f70a09f48ec4a997c8f68bdba64ae8fc9ff798d79f440ba60f7b78fac920e833e3",
 	}
 	for _, hx := range jobs {
 		t.Run(hx[:16], func(t *testing.T) {

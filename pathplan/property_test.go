@@ -153,11 +153,5 @@ func planWith(ctx context.Context, strat string, j *Job) (*Plan, error) {
 // defect; they are logged instead of failing the test until fixed. The
 // reproductions are in the closing note of the reliability issue.
 func knownPropertyDefects() map[string]string {
-	return map[string]string{
-		// A corner of the shallow feature B is reachable only from the
-		// space of the earlier, deeper feature A (air by then); the
-		// banded domain does not take that space in (tried: it made
-		// domain slivers and gouges elsewhere).
-		"banded/e0c7f90d9c1b5540": "banded leaves 0.64 % of reachable material uncut in a corner reachable only from an earlier, deeper feature",
-	}
+	return map[string]string{}
 }
