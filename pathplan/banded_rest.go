@@ -109,12 +109,15 @@ func bandedRest(job *Job, fi int, own geom.Shape, st bandedSettings, tol float64
 	return runs, nil
 }
 
-// bandedEmitRest cuts the rest runs of a level at z: each is reached over
-// the clearance height and fed down from above the level's top at its
-// start, where the feature's own passes have cut.
+// bandedEmitRest cuts the rest runs of a level at z: for each the tool is
+// fed up to the clearance height, rapids over the run's start to above the
+// level's top and is fed down there, where the feature's own passes have
+// cut.
 func bandedEmitRest(b *builder, runs [][]geom.Point, z, levelTop, clear float64, st bandedSettings, sum *FeatureSummary) {
 	for _, run := range runs {
-		b.rapid(p3(b.pos.XY(), clear))
+		// Fed up, as at the end of a feature: the tool may stand beside a
+		// wall or a scrap of the level.
+		b.feed(geom.Lift, p3(b.pos.XY(), clear), st.feed)
 		b.rapid(p3(run[0], clear))
 		b.rapid(p3(run[0], levelTop+st.safe))
 		b.feed(geom.Link, p3(run[0], z), st.entry)
