@@ -1,6 +1,8 @@
 package pathplan
 
 import (
+	"math"
+
 	"github.com/chipband/chipband/geom"
 	"github.com/chipband/chipband/offset"
 )
@@ -68,8 +70,18 @@ func bandedRest(job *Job, fi int, own geom.Shape, st bandedSettings, tol float64
 	}
 	var runs [][]geom.Point
 	for _, ring := range cExt.Rings() {
-		pts := append(append([]geom.Point(nil), ring...), ring[0])
-		pts = polyResample(pts, st.h, true)
+		// Every vertex of the ring is kept (a resampled ring would cut
+		// the corners of its arcs toward the walls); long edges get
+		// points a node apart.
+		var pts []geom.Point
+		for i, a := range ring {
+			b := ring[(i+1)%len(ring)]
+			m := max(1, int(math.Ceil(a.Dist(b)/st.h)))
+			for k := 0; k < m; k++ {
+				pts = append(pts, a.Lerp(b, float64(k)/float64(m)))
+			}
+		}
+		pts = append(pts, pts[0])
 		n := len(pts) - 1 // closed: the last point repeats the first
 		if n < 3 {
 			continue
