@@ -869,18 +869,7 @@ func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool)
 	if c.DistanceToBoundary(e) > 2*p.h {
 		return pts // the front ends in the open, not at a wall
 	}
-	var wa, wb geom.Point
-	bd, hole := math.Inf(1), false
-	for _, reg := range c {
-		for ri, ring := range reg.Rings() {
-			for i := range ring {
-				a, b := ring[i], ring[(i+1)%len(ring)]
-				if d := geom.ClosestOnSegment(e, a, b).Dist(e); d < bd {
-					bd, wa, wb, hole = d, a, b, ri > 0
-				}
-			}
-		}
-	}
+	_, wa, wb, _, hole := nearestEdge(c, e)
 	if hole || wa == wb {
 		return pts
 	}
@@ -917,9 +906,8 @@ func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool)
 			u := (lb - cum[i]) / lb
 			q := work[i].Add(tau.Scale(sw * u * u))
 			if d0, d1 := c.DistanceToBoundary(work[i]), c.DistanceToBoundary(q); d0 < p.r && d1 > d0+1e-6 && c.Contains(q) {
-				if b, found := nearestOnShape(c, q); found {
-					q = q.Add(b.Sub(q).Unit().Scale(d1 - d0))
-				}
+				_, _, _, b, _ := nearestEdge(c, q)
+				q = q.Add(b.Sub(q).Unit().Scale(d1 - d0))
 			}
 			if !c.Contains(q) && c.DistanceToBoundary(q) > 1e-3 {
 				ok = false
@@ -937,16 +925,20 @@ func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool)
 	return pts
 }
 
-// nearestOnShape returns the point of the boundary of c nearest to q.
-func nearestOnShape(c geom.Shape, q geom.Point) (geom.Point, bool) {
-	bd, bp, ok := math.Inf(1), q, false
-	for _, ring := range c.Rings() {
-		for i := range ring {
-			b := geom.ClosestOnSegment(q, ring[i], ring[(i+1)%len(ring)])
-			if d := b.Dist(q); d < bd {
-				bd, bp, ok = d, b, true
+// nearestEdge returns the distance from q to the boundary of c, the edge
+// a–b of c nearest to q, the point of that edge nearest to q, and whether
+// the edge lies on a hole.
+func nearestEdge(c geom.Shape, q geom.Point) (d float64, a, b, at geom.Point, hole bool) {
+	d, at = math.Inf(1), q
+	for _, reg := range c {
+		for ri, ring := range reg.Rings() {
+			for i := range ring {
+				p, r := ring[i], ring[(i+1)%len(ring)]
+				if x := geom.ClosestOnSegment(q, p, r); x.Dist(q) < d {
+					d, a, b, at, hole = x.Dist(q), p, r, x, ri > 0
+				}
 			}
 		}
 	}
-	return bp, ok
+	return d, a, b, at, hole
 }
