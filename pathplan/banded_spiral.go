@@ -861,17 +861,20 @@ func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool)
 	if lb < 2*p.h {
 		return pts
 	}
+	e := pts[n-1]
+	if atStart {
+		e = pts[0]
+	}
+	d, wa, wb, _, hole := nearestEdge(c, e)
+	if d > 2*p.h {
+		return pts // the front ends in the open, not at a wall
+	}
+	if hole || wa == wb {
+		return pts
+	}
 	work := pts // the end to lean is work's last point
 	if atStart {
 		work = spiralReversed(pts)
-	}
-	e := work[n-1]
-	if c.DistanceToBoundary(e) > 2*p.h {
-		return pts // the front ends in the open, not at a wall
-	}
-	_, wa, wb, _, hole := nearestEdge(c, e)
-	if hole || wa == wb {
-		return pts
 	}
 	tau := wb.Sub(wa).Unit()
 	// The direction in which the pass comes in, over half a tool radius.
@@ -905,9 +908,10 @@ func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool)
 		for i := n - 1; i >= 0 && cum[i] < lb; i-- {
 			u := (lb - cum[i]) / lb
 			q := work[i].Add(tau.Scale(sw * u * u))
-			if d0, d1 := c.DistanceToBoundary(work[i]), c.DistanceToBoundary(q); d0 < p.r && d1 > d0+1e-6 && c.Contains(q) {
-				_, _, _, b, _ := nearestEdge(c, q)
-				q = q.Add(b.Sub(q).Unit().Scale(d1 - d0))
+			if d0 := c.DistanceToBoundary(work[i]); d0 < p.r {
+				if d1, _, _, b, _ := nearestEdge(c, q); d1 > d0+1e-6 && c.Contains(q) {
+					q = q.Add(b.Sub(q).Unit().Scale(d1 - d0))
+				}
 			}
 			if !c.Contains(q) && c.DistanceToBoundary(q) > 1e-3 {
 				ok = false
