@@ -463,6 +463,32 @@ func opLength(tp *geom.Toolpath, first, end int) float64 {
 	return l
 }
 
+// neighbourParts returns, for every feature of job that take selects, the
+// part of its region within dist of feature f's region (empty parts left
+// out), in job order.
+func neighbourParts(job *Job, f Feature, dist, tol float64, take func(i int, g Feature) bool) ([]geom.Shape, error) {
+	var reach geom.Shape
+	var out []geom.Shape
+	for i, g := range job.Features {
+		if !take(i, g) {
+			continue
+		}
+		if reach == nil {
+			r, err := offset.Offset(f.Region, dist, tol)
+			if err != nil {
+				return nil, err
+			}
+			reach = r
+		}
+		part, err := geom.Intersection(g.Region, reach)
+		if err != nil || part.Area() < 1e-9 {
+			continue
+		}
+		out = append(out, part)
+	}
+	return out, nil
+}
+
 // bandedComp is one connected part of a feature's tool-centre domain.
 type bandedComp struct {
 	c    geom.Shape // the domain part (one region)
@@ -487,27 +513,20 @@ func bandedDomain(job *Job, f Feature, st bandedSettings, tol float64) ([]banded
 	// left out: taking their cleared space in as air made slivers of
 	// domain and fronts that started in air, and the 500-pocket run
 	// found gouges, rapids and uncut features from it.)
-	after := false
-	var reach geom.Shape
-	for _, g := range job.Features {
+	fi := -1
+	for i, g := range job.Features {
 		if g.Name == f.Name {
-			after = true
-			continue
+			fi = i
+			break
 		}
-		if !after || g.Depth < f.Depth-1e-9 {
-			continue
-		}
-		if reach == nil {
-			r, err := offset.Offset(f.Region, 2*st.r, tol)
-			if err != nil {
-				return nil, false, err
-			}
-			reach = r
-		}
-		near, err := geom.Intersection(g.Region, reach)
-		if err != nil || near.Area() < 1e-9 {
-			continue
-		}
+	}
+	later, err := neighbourParts(job, f, 2*st.r, tol, func(i int, g Feature) bool {
+		return i > fi && g.Depth >= f.Depth-1e-9
+	})
+	if err != nil {
+		return nil, false, err
+	}
+	for _, near := range later {
 		if u, err := geom.Union(free, near); err == nil {
 			free = u
 		}

@@ -20,24 +20,14 @@ import (
 // the feature's own material are left out.
 func bandedRest(job *Job, fi int, own geom.Shape, st bandedSettings, tol float64) ([][]geom.Point, error) {
 	f := job.Features[fi]
+	parts, err := neighbourParts(job, f, 2*st.r, tol, func(k int, g Feature) bool {
+		return k < fi && g.Depth > f.Depth+1e-9
+	})
+	if err != nil {
+		return nil, err
+	}
 	var near geom.Shape
-	var reach geom.Shape
-	for k := 0; k < fi; k++ {
-		g := job.Features[k]
-		if g.Depth <= f.Depth+1e-9 {
-			continue
-		}
-		if reach == nil {
-			r, err := offset.Offset(f.Region, 2*st.r, tol)
-			if err != nil {
-				return nil, err
-			}
-			reach = r
-		}
-		part, err := geom.Intersection(g.Region, reach)
-		if err != nil || part.Area() < 1e-9 {
-			continue
-		}
+	for _, part := range parts {
 		if near == nil {
 			near = part
 		} else if u, err := geom.Union(near, part); err == nil {
