@@ -115,6 +115,11 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	// an earlier cut of the same radius (a second descent down a hole, a
 	// retraced pass) must read as tangent, not engaged, despite the
 	// bilinear error of a curved distance field, about cell²/(8·radius).
+	// Arc ends are found at −tol; an arc as a whole counts only where the
+	// circle goes deeper than twice that error (tangent, below), so that a
+	// pass run back over its own track, or a tool come back onto a
+	// circle it has stood on, reads no sliver while real arcs keep their
+	// exact ends.
 	tol := float32(1e-4)
 	if full {
 		tol = float32(m.cell * m.cell / (2 * r))
@@ -125,6 +130,10 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	// cell²/(8·radius), must not turn a wall the circle only touches into
 	// contact over the wall's whole height.
 	hTol := -float32(m.cell * m.cell / (2 * r))
+	tangent := -float32(m.cell*m.cell/(4*r)) + tol
+	if full {
+		tangent = 0
+	}
 
 	// Circle points on the fixed grid come from the table of the material;
 	// points between grid angles by angle addition from the nearest entry.
@@ -280,8 +289,12 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 			hsure = max(hsure, h)
 		}
 	}
+	// arcMin is the lowest field value seen on the arc being scanned.
+	arcMin := float32(0)
 	addArc := func(a, b float64) {
-		if b <= a {
+		low := arcMin
+		arcMin = 0
+		if b <= a || low >= tangent {
 			return
 		}
 		if first < 0 {
@@ -302,6 +315,7 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	pv, ph := evalK(0)
 	if pv < 0 {
 		seen(pv, ph)
+		arcMin = pv
 	}
 	v0 := pv
 	start := 0.0 // start of the current material arc, when the field is negative
@@ -314,10 +328,13 @@ func (m *Material) engage(t Tool, at geom.Point3, dir geom.Point, cache *circleC
 	scan = func(a, b float64, va, vb float32, depth int) {
 		switch {
 		case va < 0 && vb < 0:
+			arcMin = min(arcMin, va, vb)
 		case va < 0:
+			arcMin = min(arcMin, va)
 			addArc(start, root(a, b, va, vb))
 		case vb < 0:
 			start = root(a, b, va, vb)
+			arcMin = vb
 		case depth > 0 && float64(va+vb) < math.Sqrt2*r*(b-a):
 			mid := (a + b) / 2
 			vm, hm := eval(mid)
