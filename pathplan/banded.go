@@ -43,6 +43,7 @@ var defaultBand = [2]float64{0.05, 0.10}
 // bandedSettings are the derived cut data of one banded plan.
 type bandedSettings struct {
 	r, target, phi float64
+	phiMax         float64 // engagement angle of 1.1 × the band maximum (top of the in-band range), radians
 	feed, entry    float64 // cutting and entry feeds, mm/min
 	helixR         float64 // helix centre-path radius, mm
 	ramp           float64 // ramp angle, radians
@@ -98,6 +99,7 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 		return s, fmt.Errorf("banded: target engagement %.3g·D is beyond half the diameter", s.target)
 	}
 	s.phi = bandedPhiOf(s.target)
+	s.phiMax = math.Max(s.phi, bandedPhiOf(1.1*band[1]))
 	base := job.Feed()
 	s.feed = base * bandedChipThinning(s.phi)
 	s.entry = base
@@ -611,7 +613,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
 	g.initStock(fc, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	g.boundary = comp.c
-	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly}
+	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
 	var start []spiralFront

@@ -289,3 +289,61 @@ func trochoidHeldMaxPhi(r, rt, p float64) float64 {
 func trochoidHeldPitch(r, rt, phiMax float64) float64 {
 	return largestPitch(r, phiMax, 10, func(p float64) float64 { return trochoidHeldMaxPhi(r, rt, p) })
 }
+
+// turnProfile returns the shape of a drift that crosses a step of width
+// step onto a parallel pass with the engagement angle held at phiMax or
+// under: arc lengths tau along the drift, from 0, spaced ds or less, and the
+// share frac of the step crossed at each (0 to 1).
+//
+// A tool of radius r that has crossed e beyond a straight edge of material
+// while moving at an angle β to it engages the arc θ + min(θ, β), with
+// θ = arccos(1 − e/r) (elementary geometry: the disk beyond the edge spans
+// ±θ about the edge normal, and only the front half of the tool cuts). So
+// the drift may be steep while θ ≤ φmax/2 and must flatten to
+// β = φmax − θ as it nears the full step. The drift is built chord by
+// chord (chords of length ds at most), each as steep as its end allows,
+// between 4° and 60° so that it stays short and smooth; tau is measured
+// along the pass, not along the drift.
+func turnProfile(r, step, phiMax, ds float64) (tau, frac []float64) {
+	const lo, hi = 4 * math.Pi / 180, 60 * math.Pi / 180
+	if !(step > 0) || !(r > 0) || !(ds > 0) {
+		return []float64{0, ds}, []float64{0, 1}
+	}
+	// arc is the engaged arc at the end of a straight chord at angle β
+	// that ends e beyond the edge: the worst point of the chord, since
+	// the arc grows with e.
+	arc := func(e, beta float64) float64 {
+		th := math.Acos(math.Max(-1, 1-e/r))
+		return th + math.Min(th, beta)
+	}
+	tau, frac = []float64{0}, []float64{0}
+	e, s := 0.0, 0.0
+	for e < step && len(tau) < 100000 {
+		// The steepest chord of length ds whose end keeps the arc at
+		// phiMax, by bisection on its angle, within [lo, hi].
+		a, b := lo, hi
+		if arc(math.Min(step, e+ds*math.Sin(b)), b) > phiMax {
+			for range 40 {
+				m := (a + b) / 2
+				if arc(math.Min(step, e+ds*math.Sin(m)), m) > phiMax {
+					b = m
+				} else {
+					a = m
+				}
+			}
+			b = a
+		}
+		rise := ds * math.Sin(b)
+		run := ds * math.Cos(b)
+		if e+rise > step {
+			run *= (step - e) / rise
+			rise = step - e
+		}
+		e += rise
+		s += run
+		tau = append(tau, s)
+		frac = append(frac, math.Min(1, e/step))
+	}
+	frac[len(frac)-1] = 1
+	return tau, frac
+}

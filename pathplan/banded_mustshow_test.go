@@ -20,7 +20,6 @@ import (
 var bandedMustShowShort = map[string]bool{
 	"closed_pocket.json/pocket/above":              true,
 	"closed_pocket.json/pocket/max":                true,
-	"deep_open.json/shoulder/max":                  true,
 	"deep_open.json/through slot/above":            true,
 	"deep_open.json/through slot/cycle":            true,
 	"deep_open.json/through slot/in-band":          true,
@@ -30,7 +29,6 @@ var bandedMustShowShort = map[string]bool{
 	"demo/comb pocket/above":                       true,
 	"demo/comb pocket/in-band":                     true,
 	"demo/comb pocket/max":                         true,
-	"demo/deep step/max":                           true,
 	"open_slot.json/slot/in-band":                  true,
 	"open_slot.json/slot/max":                      true,
 	"outside_profile.json/profile/max":             true,

@@ -1,0 +1,114 @@
+package pathplan
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
+)
+
+// TestTurnProfile: a drift that crosses one step onto the next pass along
+// turnProfile's curve keeps the engaged arc at or under the angle it was
+// given, as engage's material-removal simulation reads it, where a
+// straight drift of twice the step (the short-pass turn) peaks near
+// θ + atan(1/2) (elementary geometry: θ = arccos(1 − step/r) the arc of
+// the full step, plus the drift angle).
+func TestTurnProfile(t *testing.T) {
+	for _, c := range []struct {
+		d, aeD, maxD float64
+	}{
+		{6, 0.075, 0.11}, // the testdata jobs: band [0.05, 0.10]
+		{10, 0.06, 0.088},
+		{8, 0.10, 0.15},
+	} {
+		r := c.d / 2
+		step := c.aeD * c.d
+		phiMax := bandedPhiOf(c.maxD)
+		tau, frac := turnProfile(r, step, phiMax, 0.05)
+		l := tau[len(tau)-1]
+		if frac[0] != 0 || frac[len(frac)-1] != 1 {
+			t.Fatalf("D%g: profile runs %g to %g, want 0 to 1", c.d, frac[0], frac[len(frac)-1])
+		}
+		for k := 1; k < len(tau); k++ {
+			if tau[k] <= tau[k-1] || frac[k] < frac[k-1] || tau[k]-tau[k-1] > 0.05+1e-9 {
+				t.Fatalf("D%g: sample %d not increasing or too far: %g,%g after %g,%g", c.d, k, tau[k], frac[k], tau[k-1], frac[k-1])
+			}
+		}
+		drift := func(pts []geom.Point) float64 {
+			// A slot along y = 0 cut from the air, then the tool comes back
+			// and drifts from it onto y = step, moving +x.
+			m, err := engage.NewMaterial(geom.Shape{{Outer: geom.RectRing(0, -20, 80, 20)}}, 0, engage.MaterialOptions{CellSize: 0.05})
+			if err != nil {
+				t.Fatal(err)
+			}
+			const z = -2.0
+			tp := &geom.Toolpath{Start: geom.Point3{X: -10, Y: 0, Z: z}}
+			tp.Moves = append(tp.Moves,
+				geom.Move{Kind: geom.Feed, To: geom.Point3{X: 60, Y: 0, Z: z}, Feed: 1000},
+				geom.Move{Kind: geom.Link, To: geom.Point3{X: 10, Y: 0, Z: z}, Feed: 1000})
+			first := len(tp.Moves)
+			for _, p := range pts {
+				tp.Moves = append(tp.Moves, geom.Move{Kind: geom.Feed, To: geom.Point3{X: p.X, Y: p.Y, Z: z}, Feed: 1000})
+			}
+			tool := engage.Tool{Diameter: c.d, FluteLength: 10, Flutes: 3}
+			res, err := engage.Simulate(context.Background(), m, tool, tp, engage.SimOptions{Step: 0.02})
+			if err != nil {
+				t.Fatal(err)
+			}
+			peak := 0.0
+			for _, s := range res.Profile {
+				if s.Move >= first {
+					peak = math.Max(peak, s.Phi)
+				}
+			}
+			return peak
+		}
+		var pts []geom.Point
+		for k := range tau {
+			pts = append(pts, geom.Pt(10+tau[k], step*frac[k]))
+		}
+		// Run on along the new pass for a radius, where the engagement
+		// settles at θ.
+		pts = append(pts, geom.Pt(10+l+r, step))
+		theta := math.Acos(1 - step/r)
+		got := drift(pts)
+		// engage's arc is exact to about 0.5° (its own tests).
+		if got > phiMax+0.5*math.Pi/180 {
+			t.Errorf("D%g: drift of %.2f mm peaks at φ %.1f°, want ≤ %.1f°", c.d, l, got*180/math.Pi, phiMax*180/math.Pi)
+		}
+		if got < theta-0.5*math.Pi/180 {
+			t.Errorf("D%g: drift peaks at φ %.1f°, under the full step's %.1f°", c.d, got*180/math.Pi, theta*180/math.Pi)
+		}
+		ls := 2 * step
+		straight := drift([]geom.Point{geom.Pt(10+ls, step), geom.Pt(10+ls+r, step)})
+		want := theta + math.Atan(0.5)
+		if math.Abs(straight-want) > 3*math.Pi/180 {
+			t.Errorf("D%g: straight drift peaks at φ %.1f°, want about %.1f°", c.d, straight*180/math.Pi, want*180/math.Pi)
+		}
+		t.Logf("D%g ae %.3f·D: profile %.2f mm peaks %.1f° (limit %.1f°); straight %.2f mm peaks %.1f°", c.d, c.aeD, l, got*180/math.Pi, phiMax*180/math.Pi, ls, straight*180/math.Pi)
+	}
+}
+
+// TestPolyBetween: the part of a polyline between two points on it, in
+// either direction, keeps the vertices between them.
+func TestPolyBetween(t *testing.T) {
+	pts := []geom.Point{geom.Pt(0, 0), geom.Pt(2, 0), geom.Pt(2, 2), geom.Pt(4, 2)}
+	got := polyBetween(pts, geom.Pt(3, 2), geom.Pt(1, 0), 1e-6)
+	want := []geom.Point{geom.Pt(3, 2), geom.Pt(2, 2), geom.Pt(2, 0), geom.Pt(1, 0)}
+	if len(got) != len(want) {
+		t.Fatalf("backward: %v, want %v", got, want)
+	}
+	for i := range want {
+		if got[i].Dist(want[i]) > 1e-12 {
+			t.Fatalf("backward: %v, want %v", got, want)
+		}
+	}
+	if got := polyBetween(pts, geom.Pt(0.5, 0), geom.Pt(2, 1), 1e-6); len(got) != 3 || got[1] != geom.Pt(2, 0) {
+		t.Errorf("forward: %v", got)
+	}
+	if got := polyBetween(pts, geom.Pt(1, 0.5), geom.Pt(2, 1), 1e-6); got != nil {
+		t.Errorf("a point off the line: %v, want nil", got)
+	}
+}
