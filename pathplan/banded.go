@@ -619,6 +619,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	var start []spiralFront
 	var pos geom.Point
 	inAir := false
+	p.leanHoles = comp.open
 	if comp.open {
 		grown, err := offset.Offset(job.Stock.Outline, st.r+0.01, DefaultTolerance)
 		if err != nil {

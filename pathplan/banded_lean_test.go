@@ -91,5 +91,17 @@ func TestSpiralLeanEnd(t *testing.T) {
 		if out[len(out)-1] != pts[len(pts)-1] {
 			t.Errorf("end on the island moved to %v", out[len(out)-1])
 		}
+		// In an open feature the hole is the part, and the end leans:
+		// moving +x with material on the left (+y), the swept side is −y.
+		ph := p
+		ph.leanHoles = true
+		out = spiralLeanEnd(pts, isl, ph, false)
+		end := out[len(out)-1]
+		if math.Abs(end.X-25) > 1e-9 || end.Y >= 10 {
+			t.Errorf("end on the part %v, want on x = 25 moved to −y", end)
+		}
+		if a := 90 - endAngle(out, false); a > leanAngle+5 || a < leanAngle-10 {
+			t.Errorf("end meets the part at %.1f°, want about %d°", a, leanAngle)
+		}
 	})
 }

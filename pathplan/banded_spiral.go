@@ -44,6 +44,9 @@ type spiralParams struct {
 	// noBoundary leaves out the last pass along the boundary of c (a bay
 	// whose walls are passed along once the whole domain is cleared).
 	noBoundary bool
+	// leanHoles leans pass ends onto the walls of holes too (open
+	// features, where the holes are the part).
+	leanHoles bool
 }
 
 // spiralReversed returns a reversed copy of pts.
@@ -899,7 +902,7 @@ func polySmooth(pts []geom.Point, closed bool, iters int) []geom.Point {
 const leanAngle = 30
 
 // spiralLeanEnd leans the start (or end) of an open front that meets an
-// outer wall of c so that it meets the wall at no more than leanAngle,
+// outer wall of c (or a hole's wall, with p.leanHoles) so that it meets the wall at no more than leanAngle,
 // heading to the swept side (the right of the front's direction: material
 // lies on its left). A pass that ends square to a wall beside the round end
 // of the pass before it meets the crescent between the two ends: its
@@ -913,8 +916,10 @@ const leanAngle = 30
 // the wall to leanAngle when sw = (lb/2)·(sin β/tan(leanAngle) − cos β); on
 // a curved wall each point keeps its distance to the wall. The next fronts
 // follow the leaned cut, so they mostly arrive leaning already. Island
-// walls are left alone: the ends leaned around an island and the fronts
-// then wound about it (demo boss pocket: 36 % more passes, 24 % more time).
+// walls of pockets are left alone (unless p.leanHoles): the ends leaned
+// around an island and the fronts then wound about it (demo boss pocket:
+// 36 % more passes, 24 % more time). In open features the holes are the
+// part itself (an outside profile), and there they lean.
 func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool) []geom.Point {
 	n := len(pts)
 	if n < 4 {
@@ -932,7 +937,7 @@ func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool)
 	if d > 2*p.h {
 		return pts // the front ends in the open, not at a wall
 	}
-	if hole || wa == wb {
+	if hole && !p.leanHoles || wa == wb {
 		return pts
 	}
 	work := pts // the end to lean is work's last point
