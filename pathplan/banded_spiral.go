@@ -47,6 +47,9 @@ type spiralParams struct {
 	// leanHoles leans pass ends onto the walls of holes too (open
 	// features, where the holes are the part).
 	leanHoles bool
+	// turnTau and turnFrac hold turnProfile for r, phi, phiMax and h,
+	// computed once per plan (spiralTurn computes it when they are nil).
+	turnTau, turnFrac []float64
 }
 
 // spiralReversed returns a reversed copy of pts.
@@ -400,7 +403,10 @@ const shortPass = 12
 // ramp starts on the neighbour pass and ends at next's start.
 func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p spiralParams) (ramp, along []geom.Point) {
 	step := p.r * (1 - math.Cos(p.phi))
-	tau, frac := turnProfile(p.r, step, math.Max(p.phiMax, p.phi), 0.5*p.h)
+	tau, frac := p.turnTau, p.turnFrac
+	if tau == nil {
+		tau, frac = turnProfile(p.r, step, math.Max(p.phiMax, p.phi), 0.5*p.h)
+	}
 	l := tau[len(tau)-1]
 	if n := polyLen(next); n < shortPass*l {
 		// A short pass: a straight drift of twice the step, whose engaged
