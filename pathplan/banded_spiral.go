@@ -343,10 +343,21 @@ func spiralSteps(pts []geom.Point, closed bool, p spiralParams) []float64 {
 		turn := math.Atan2(t1.Cross(t2), t1.Dot(t2))
 		rad := math.Inf(1)
 		if math.Abs(turn) > 1e-9 {
-			rad = (s1 - s0) / math.Abs(turn)
+			// The chords a→m and m→b point along the tangents at their
+			// middles, (s1 − s0)/2 apart: turn = (s1 − s0)/(2·rad).
+			rad = (s1 - s0) / (2 * math.Abs(turn))
 		}
 		// Material on the left: a right turn bends toward the swept side.
-		steps[i] = spiralStep(p.r, p.phi, rad, turn < 0)
+		convex := turn < 0
+		if !convex {
+			// Around material (a front wrapping a corner of it) the full
+			// correction widens the step until the fronts break up into
+			// short pieces (deep_open.json shoulder: in-band 0.94 -> 0.72,
+			// cycle +50 %); there the step follows half the curvature, on
+			// the safe side of the target.
+			rad *= 2
+		}
+		steps[i] = spiralStep(p.r, p.phi, rad, convex)
 		steps[i] = math.Max(p.minStep, math.Min(p.maxStep, steps[i]))
 	}
 	return steps

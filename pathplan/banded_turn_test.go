@@ -112,3 +112,36 @@ func TestPolyBetween(t *testing.T) {
 		t.Errorf("a point off the line: %v, want nil", got)
 	}
 }
+
+// TestSpiralStepsCurvature: on a circular front of radius R, spiralSteps
+// reads the curvature of the circle (the tangent turns by w/R over a
+// length w, elementary geometry) and steps by spiralStep for R where
+// material lies outside the circle (an outward spiral); where it lies
+// inside, by spiralStep for 2R (the damped correction).
+func TestSpiralStepsCurvature(t *testing.T) {
+	p := spiralParams{r: 4, phi: bandedPhiOf(0.075), h: 0.2, minStep: 0.01, maxStep: 10}
+	for _, rad := range []float64{6, 10, 20} {
+		var cw []geom.Point
+		n := int(2 * math.Pi * rad / 0.1)
+		for i := 0; i <= n; i++ {
+			a := -2 * math.Pi * float64(i) / float64(n) // clockwise: material (left) outside
+			cw = append(cw, geom.Pt(rad*math.Cos(a), rad*math.Sin(a)))
+		}
+		ccw := spiralReversed(cw)
+		for _, c := range []struct {
+			name string
+			pts  []geom.Point
+			want float64
+		}{
+			{"material outside", cw, spiralStep(p.r, p.phi, rad, true)},
+			{"material inside", ccw, spiralStep(p.r, p.phi, 2*rad, false)},
+		} {
+			steps := spiralSteps(c.pts, true, p)
+			for i, s := range steps {
+				if math.Abs(s-c.want) > 0.01*c.want {
+					t.Fatalf("R %g, %s: step %.4f at vertex %d, want %.4f", rad, c.name, s, i, c.want)
+				}
+			}
+		}
+	}
+}
