@@ -393,13 +393,6 @@ func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geo
 	return append(pts, last)
 }
 
-// shortPass is the pass length, in drift lengths, under which a turn takes
-// the short straight drift: where passes are short the turns are a large
-// share of the path, and the longer drift cost the through slot of
-// deep_open.json its lead over layered roughing (201.7 s against 196.6 s
-// at 6 drift lengths, 186.3 s at 12).
-const shortPass = 12
-
 // spiralTurn returns the ramp onto the open pass next from a pass cut
 // beside it (one of cut, else of older), or nil when none runs beside its
 // start, with the neighbour pass it leaves from. Stepping straight from one
@@ -409,9 +402,9 @@ const shortPass = 12
 // material to a length l short of the wall, runs forward again while
 // drifting over onto next along turnProfile's curve (the engaged arc held
 // at 1.1 × the band maximum), and at the start of next reverses into the
-// pass, which then takes the wedge the drift left. Passes shorter than
-// shortPass drift lengths drift straight over twice the step instead. The
-// ramp starts on the neighbour pass and ends at next's start.
+// pass, which then takes the wedge the drift left. A pass shorter than
+// three drift lengths gets no turn. The ramp starts on the neighbour pass
+// and ends at next's start.
 func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p spiralParams) (ramp, along []geom.Point) {
 	step := p.r * (1 - math.Cos(p.phi))
 	tau, frac := p.turnTau, p.turnFrac
@@ -419,20 +412,8 @@ func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p s
 		tau, frac = turnProfile(p.r, step, math.Max(p.phiMax, p.phi), 0.5*p.h)
 	}
 	l := tau[len(tau)-1]
-	if n := polyLen(next); n < shortPass*l {
-		// A short pass: a straight drift of twice the step, whose engaged
-		// arc grows by its angle (27°) at the end, but which costs less
-		// time where the turns are a large share of the path.
-		l = math.Max(2*step, 0.8)
-		if n < 3*l {
-			return nil, nil
-		}
-		k := max(4, int(math.Ceil(l/(0.5*p.h))))
-		tau, frac = make([]float64, k+1), make([]float64, k+1)
-		for i := range tau {
-			tau[i] = l * float64(i) / float64(k)
-			frac[i] = float64(i) / float64(k)
-		}
+	if polyLen(next) < 3*l {
+		return nil, nil
 	}
 	reach := p.maxStep + 2*p.h
 	var seg []spiralFront

@@ -12,7 +12,7 @@ import (
 // TestTurnProfile: a drift that crosses one step onto the next pass along
 // turnProfile's curve keeps the engaged arc at or under the angle it was
 // given, as engage's material-removal simulation reads it, where a
-// straight drift of twice the step (the short-pass turn) peaks near
+// straight drift of twice the step (the turn before it) peaks near
 // θ + atan(1/2) (elementary geometry: θ = arccos(1 − step/r) the arc of
 // the full step, plus the drift angle).
 func TestTurnProfile(t *testing.T) {
