@@ -613,10 +613,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
 	g.initStock(fc, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	g.boundary = comp.c
-	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly}
-	straight := st.r * (1 - math.Cos(st.phi))
-	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
-	p.turnTau, p.turnFrac = turnProfile(p.r, straight, math.Max(p.phiMax, p.phi), 0.5*p.h)
+	p := newSpiralParams(st)
 	var start []spiralFront
 	var pos geom.Point
 	inAir := false

@@ -27,6 +27,7 @@ var bandedMustShowShort = map[string]bool{
 	"demo/boss pocket/above":                       true,
 	"demo/boss pocket/max":                         true,
 	"demo/comb pocket/above":                       true,
+	"demo/comb pocket/cycle":                       true,
 	"demo/comb pocket/in-band":                     true,
 	"demo/comb pocket/max":                         true,
 	"open_slot.json/slot/in-band":                  true,

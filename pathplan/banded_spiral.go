@@ -48,8 +48,19 @@ type spiralParams struct {
 	// features, where the holes are the part).
 	leanHoles bool
 	// turnTau and turnFrac hold turnProfile for r, phi, phiMax and h,
-	// computed once per plan (spiralTurn computes it when they are nil).
+	// computed once per domain part.
 	turnTau, turnFrac []float64
+}
+
+// newSpiralParams returns the front parameters of the banded cut data st:
+// steps between 0.3 and 1.6 times the straight-cut width, and the drift of
+// the turns.
+func newSpiralParams(st bandedSettings) spiralParams {
+	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly}
+	straight := st.r * (1 - math.Cos(st.phi))
+	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
+	p.turnTau, p.turnFrac = turnProfile(p.r, straight, math.Max(p.phiMax, p.phi), 0.5*p.h)
+	return p
 }
 
 // spiralReversed returns a reversed copy of pts.
@@ -406,11 +417,7 @@ func spiralExtend(pts []geom.Point, c geom.Shape, h float64, atStart bool) []geo
 // three drift lengths gets no turn. The ramp starts on the neighbour pass
 // and ends at next's start.
 func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p spiralParams) (ramp, along []geom.Point) {
-	step := p.r * (1 - math.Cos(p.phi))
 	tau, frac := p.turnTau, p.turnFrac
-	if tau == nil {
-		tau, frac = turnProfile(p.r, step, math.Max(p.phiMax, p.phi), 0.5*p.h)
-	}
 	l := tau[len(tau)-1]
 	if polyLen(next) < 3*l {
 		return nil, nil

@@ -140,9 +140,8 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	}
 	g := newBandedGridPad(comp.c, st.h, st.r+2*st.h)
 	g.initStock(comp.c, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
-	p := spiralParams{r: st.r, phi: st.phi, h: st.h, climbOnly: st.climbOnly, noBoundary: true}
-	straight := st.r * (1 - math.Cos(st.phi))
-	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
+	p := newSpiralParams(st)
+	p.noBoundary = true
 	band := job.Cut.Band
 	if band[1] <= 0 {
 		band = defaultBand
