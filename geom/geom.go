@@ -181,12 +181,19 @@ func (r Ring) ContainsPoint(p Point) bool { return r.Winding(p) != 0 }
 
 // DistanceTo returns the distance from p to the nearest point of r's boundary.
 func (r Ring) DistanceTo(p Point) float64 {
-	d := math.Inf(1)
+	// The nearest point by squared distance, then one square root.
+	d2, best := math.Inf(1), p
 	n := len(r)
 	for i := 0; i < n; i++ {
-		d = math.Min(d, SegmentDistance(p, r[i], r[(i+1)%n]))
+		q := ClosestOnSegment(p, r[i], r[(i+1)%n])
+		if e := q.Sub(p); e.Dot(e) < d2 {
+			d2, best = e.Dot(e), q
+		}
 	}
-	return d
+	if n == 0 {
+		return math.Inf(1)
+	}
+	return p.Dist(best)
 }
 
 // SegmentDistance returns the distance from p to the segment ab.

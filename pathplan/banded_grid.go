@@ -73,10 +73,10 @@ func newBandedWalls(c geom.Shape, cell float64) *bandedWalls {
 // span returns the bucket range of the box of a and b, clamped.
 func (w *bandedWalls) span(a, b geom.Point) (i0, j0, i1, j1 int) {
 	cl := func(v, n int) int { return max(0, min(n-1, v)) }
-	i0 = cl(int(math.Floor((math.Min(a.X, b.X)-w.x0)/w.cell)), w.nx)
-	i1 = cl(int(math.Floor((math.Max(a.X, b.X)-w.x0)/w.cell)), w.nx)
-	j0 = cl(int(math.Floor((math.Min(a.Y, b.Y)-w.y0)/w.cell)), w.ny)
-	j1 = cl(int(math.Floor((math.Max(a.Y, b.Y)-w.y0)/w.cell)), w.ny)
+	i0 = cl(int(math.Floor((min(a.X, b.X)-w.x0)/w.cell)), w.nx)
+	i1 = cl(int(math.Floor((max(a.X, b.X)-w.x0)/w.cell)), w.nx)
+	j0 = cl(int(math.Floor((min(a.Y, b.Y)-w.y0)/w.cell)), w.ny)
+	j1 = cl(int(math.Floor((max(a.Y, b.Y)-w.y0)/w.cell)), w.ny)
 	return
 }
 
@@ -125,7 +125,7 @@ func newBandedGrid(c geom.Shape, h float64) *bandedGrid {
 // that reaches pad beyond c's bounds (room for the material around it).
 func newBandedGridPad(c geom.Shape, h, pad float64) *bandedGrid {
 	b := c.Bounds()
-	g := &bandedGrid{h: h, x0: b.Min.X - pad, y0: b.Min.Y - pad, walls: newBandedWalls(c, math.Max(1, 8*h))}
+	g := &bandedGrid{h: h, x0: b.Min.X - pad, y0: b.Min.Y - pad, walls: newBandedWalls(c, max(1, 8*h))}
 	g.nx = int(math.Ceil((b.Width()+2*pad)/h)) + 1
 	g.ny = int(math.Ceil((b.Height()+2*pad)/h)) + 1
 	n := g.nx * g.ny
@@ -283,8 +283,8 @@ func (g *bandedGrid) propagate(segs []spiralSeg, limit float64) {
 	}
 	pad := 1.5 * g.h
 	for si, s := range segs {
-		lo := geom.Pt(math.Min(s.a.X, s.b.X)-pad, math.Min(s.a.Y, s.b.Y)-pad)
-		hi := geom.Pt(math.Max(s.a.X, s.b.X)+pad, math.Max(s.a.Y, s.b.Y)+pad)
+		lo := geom.Pt(min(s.a.X, s.b.X)-pad, min(s.a.Y, s.b.Y)-pad)
+		hi := geom.Pt(max(s.a.X, s.b.X)+pad, max(s.a.Y, s.b.Y)+pad)
 		i0, i1 := int(math.Floor((lo.X-g.x0)/g.h)), int(math.Ceil((hi.X-g.x0)/g.h))
 		j0, j1 := int(math.Floor((lo.Y-g.y0)/g.h)), int(math.Ceil((hi.Y-g.y0)/g.h))
 		for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
@@ -321,7 +321,7 @@ func (g *bandedGrid) propagate(segs []spiralSeg, limit float64) {
 				nd, _ := s.distParam(g.pt(kk))
 				// Keep the distance path-consistent: never shorter than
 				// walking there through this node allows (walls bend it).
-				nd = math.Max(nd, d)
+				nd = max(nd, d)
 				if nd < g.t[kk] && nd <= limit {
 					set(kk, nd, int(g.src[k]))
 				}

@@ -10,7 +10,7 @@ import "math"
 // cut at radial fraction aeD = ae/D: φ = arccos(1 − ae/r).
 func bandedPhiOf(aeD float64) float64 {
 	c := 1 - 2*aeD
-	return math.Acos(math.Max(-1, math.Min(1, c)))
+	return math.Acos(max(-1, min(1, c)))
 }
 
 // bandedAeOf returns the radial fraction ae/D equivalent to engagement angle
@@ -43,16 +43,16 @@ func spiralStep(r, phi, rp float64, convex bool) float64 {
 	if convex {
 		// ρ² + 2rcρ + r² − (rp + r)² = 0, positive root.
 		rho := -r*c + math.Sqrt(r*r*c*c-r*r+(rp+r)*(rp+r))
-		return math.Max(0, rho-rp)
+		return max(0, rho-rp)
 	}
 	disc := r*r*c*c - r*r + (rp-r)*(rp-r)
 	if disc < 0 || rp <= r {
 		// The concave front closes before the engagement reaches φ: the
 		// whole arc can be taken.
-		return math.Max(straight, rp)
+		return max(straight, rp)
 	}
 	rho := r*c + math.Sqrt(disc)
-	return math.Max(0, rp-rho)
+	return max(0, rp-rho)
 }
 
 // spiralPhi returns the engagement angle (radians) of a tool of radius r on
@@ -67,7 +67,7 @@ func spiralPhi(r, rho, s float64, convex bool) float64 {
 		rp := rho + s
 		c = (rho*rho + r*r - (rp-r)*(rp-r)) / (2 * rho * r)
 	}
-	return math.Acos(math.Max(-1, math.Min(1, c)))
+	return math.Acos(max(-1, min(1, c)))
 }
 
 // bandedChipThinning returns the factor by which the programmed feed per
@@ -113,7 +113,7 @@ func trochoidPoint(rt, p, th float64) (x, y float64) {
 func trochoidMaxPhi(r, rt, p float64) float64 {
 	const nTh, nA = 72, 90
 	// Previous loops that can still reach the current one.
-	back := int(math.Ceil(2*(rt+r)/math.Max(p, 1e-6))) + 1
+	back := int(math.Ceil(2*(rt+r)/max(p, 1e-6))) + 1
 	if back > 8 {
 		back = 8
 	}
@@ -150,7 +150,7 @@ func trochoidMaxPhi(r, rt, p float64) float64 {
 		if l == 0 {
 			continue
 		}
-		best = math.Max(best, frontAngle(cx, cy, ux/l, uy/l, r, rt+r, nA, covered))
+		best = max(best, frontAngle(cx, cy, ux/l, uy/l, r, rt+r, nA, covered))
 	}
 	return best
 }
@@ -211,14 +211,14 @@ func coveredBy(pts [][2]float64, qx, qy, r float64) bool {
 	for i := len(pts) - 2; i >= 0; i-- {
 		ax, ay := pts[i][0], pts[i][1]
 		bx, by := pts[i+1][0], pts[i+1][1]
-		if qx < math.Min(ax, bx)-r || qx > math.Max(ax, bx)+r || qy < math.Min(ay, by)-r || qy > math.Max(ay, by)+r {
+		if qx < min(ax, bx)-r || qx > max(ax, bx)+r || qy < min(ay, by)-r || qy > max(ay, by)+r {
 			continue
 		}
 		dx, dy := pts[i+1][0]-ax, pts[i+1][1]-ay
 		l2 := dx*dx + dy*dy
 		t := 0.0
 		if l2 > 0 {
-			t = math.Max(0, math.Min(1, ((qx-ax)*dx+(qy-ay)*dy)/l2))
+			t = max(0, min(1, ((qx-ax)*dx+(qy-ay)*dy)/l2))
 		}
 		ex, ey := ax+t*dx-qx, ay+t*dy-qy
 		if ex*ex+ey*ey <= r*r*(1-1e-9) {
@@ -257,7 +257,7 @@ func trochoidHeldMaxPhi(r, rt, p float64) float64 {
 	const nTh, nA = 72, 60
 	// Loops more than four pitches back lie behind the front half of the
 	// tool wherever the pitch is small enough to matter.
-	back := int(math.Ceil(2*(rt+r)/math.Max(p, 1e-6))) + 1
+	back := int(math.Ceil(2*(rt+r)/max(p, 1e-6))) + 1
 	if back > 4 {
 		back = 4
 	}
@@ -278,7 +278,7 @@ func trochoidHeldMaxPhi(r, rt, p float64) float64 {
 			continue
 		}
 		covered := func(qx, qy float64) bool { return coveredBy(prev, qx, qy, r) }
-		best = math.Max(best, frontAngle(cx, cy, ux/l, uy/l, r, rt+r, nA, covered))
+		best = max(best, frontAngle(cx, cy, ux/l, uy/l, r, rt+r, nA, covered))
 	}
 	return best
 }
@@ -313,8 +313,8 @@ func turnProfile(r, step, phiMax, ds float64) (tau, frac []float64) {
 	// that ends e beyond the edge: the worst point of the chord, since
 	// the arc grows with e.
 	arc := func(e, beta float64) float64 {
-		th := math.Acos(math.Max(-1, 1-e/r))
-		return th + math.Min(th, beta)
+		th := math.Acos(max(-1, 1-e/r))
+		return th + min(th, beta)
 	}
 	tau, frac = []float64{0}, []float64{0}
 	e, s := 0.0, 0.0
@@ -322,10 +322,10 @@ func turnProfile(r, step, phiMax, ds float64) (tau, frac []float64) {
 		// The steepest chord of length ds whose end keeps the arc at
 		// phiMax, by bisection on its angle, within [lo, hi].
 		a, b := lo, hi
-		if arc(math.Min(step, e+ds*math.Sin(b)), b) > phiMax {
+		if arc(min(step, e+ds*math.Sin(b)), b) > phiMax {
 			for range 40 {
 				m := (a + b) / 2
-				if arc(math.Min(step, e+ds*math.Sin(m)), m) > phiMax {
+				if arc(min(step, e+ds*math.Sin(m)), m) > phiMax {
 					b = m
 				} else {
 					a = m
@@ -342,7 +342,7 @@ func turnProfile(r, step, phiMax, ds float64) (tau, frac []float64) {
 		e += rise
 		s += run
 		tau = append(tau, s)
-		frac = append(frac, math.Min(1, e/step))
+		frac = append(frac, min(1, e/step))
 	}
 	frac[len(frac)-1] = 1
 	return tau, frac

@@ -132,8 +132,9 @@ func (g *bandedGrid) initStock(c, stock geom.Shape, r, bite float64) {
 			a, b := ring[i], ring[(i+1)%len(ring)]
 			j0 := max(0, int(math.Floor((min(a.Y, b.Y)-reach-g.y0)/g.h)))
 			j1 := min(g.ny-1, int(math.Ceil((max(a.Y, b.Y)+reach-g.y0)/g.h)))
+			cs := newCapsule(a, b, reach)
 			for j := j0; j <= j1; j++ {
-				lo, hi := capsuleRow(a, b, g.y0+float64(j)*g.h, reach)
+				lo, hi := cs.row(g.y0 + float64(j)*g.h)
 				if lo > hi {
 					continue
 				}
@@ -231,7 +232,7 @@ func (g *bandedGrid) stampDisk(c geom.Point, rad float64) {
 		y := g.y0 + float64(j)*g.h
 		for i := i0; i <= i1; i++ {
 			x := g.x0 + float64(i)*g.h
-			d := float32(math.Max(0, math.Sqrt((x-c.X)*(x-c.X)+(y-c.Y)*(y-c.Y))-rad))
+			d := float32(max(0, math.Sqrt((x-c.X)*(x-c.X)+(y-c.Y)*(y-c.Y))-rad))
 			if k := j*g.nx + i; d < s.cl[k] {
 				s.cl[k] = d
 			}
@@ -239,10 +240,33 @@ func (g *bandedGrid) stampDisk(c geom.Point, rad float64) {
 	}
 }
 
-// capsuleRow returns the x range in which the row at height y meets the
-// points within R of the segment ab (lo > hi: none). The set is convex, so
-// the range is the hull of the end circles' ranges and the strip's.
-func capsuleRow(a, b geom.Point, y, R float64) (lo, hi float64) {
+// capsule is the set of points within R of the segment ab, with the
+// segment's length and direction worked out once for all the rows a stamp
+// asks about.
+type capsule struct {
+	a, b   geom.Point
+	R      float64
+	l      float64 // length of ab; 0: a point
+	ux, uy float64 // unit direction of ab
+	flat   bool    // ab is horizontal
+}
+
+func newCapsule(a, b geom.Point, R float64) capsule {
+	c := capsule{a: a, b: b, R: R}
+	ab := b.Sub(a)
+	if l2 := ab.X*ab.X + ab.Y*ab.Y; l2 > 0 {
+		c.flat = ab.Y == 0
+		c.l = math.Sqrt(l2)
+		c.ux, c.uy = ab.X/c.l, ab.Y/c.l
+	}
+	return c
+}
+
+// row returns the x range in which the row at height y meets the capsule
+// (lo > hi: none). The set is convex, so the range is the hull of the end
+// circles' ranges and the strip's.
+func (c *capsule) row(y float64) (lo, hi float64) {
+	a, b, R := c.a, c.b, c.R
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, e := range [2]geom.Point{a, b} {
 		if dy := y - e.Y; dy <= R && dy >= -R {
@@ -250,17 +274,14 @@ func capsuleRow(a, b geom.Point, y, R float64) (lo, hi float64) {
 			lo, hi = min(lo, e.X-w), max(hi, e.X+w)
 		}
 	}
-	ab := b.Sub(a)
-	l2 := ab.X*ab.X + ab.Y*ab.Y
 	switch {
-	case l2 == 0:
-	case ab.Y == 0:
+	case c.l == 0:
+	case c.flat:
 		if dy := y - a.Y; dy <= R && dy >= -R {
 			lo, hi = min(lo, min(a.X, b.X)), max(hi, max(a.X, b.X))
 		}
 	default:
-		l := math.Sqrt(l2)
-		ux, uy := ab.X/l, ab.Y/l
+		l, ux, uy := c.l, c.ux, c.uy
 		// Projection on the segment: ux·(x−ax) + uy·(y−ay) ∈ [0, l].
 		var p0, p1 float64
 		if ux == 0 {
@@ -299,9 +320,10 @@ func (g *bandedGrid) stampSeg(a, b geom.Point) {
 	l2 := ab.X*ab.X + ab.Y*ab.Y
 	j0 := max(0, int(math.Floor((min(a.Y, b.Y)-R-g.y0)/g.h)))
 	j1 := min(g.ny-1, int(math.Ceil((max(a.Y, b.Y)+R-g.y0)/g.h)))
+	cs := newCapsule(a, b, R)
 	for j := j0; j <= j1; j++ {
 		y := g.y0 + float64(j)*g.h
-		lo, hi := capsuleRow(a, b, y, R)
+		lo, hi := cs.row(y)
 		if lo > hi {
 			continue
 		}
@@ -402,7 +424,7 @@ func (g *bandedGrid) materialDistance() {
 						// The cut edge lies where the distance to the path
 						// is r, between the two nodes.
 						t := float64((r - s.cl[kk]) / (s.cl[k] - s.cl[kk]))
-						e = g.pt(kk).Lerp(g.pt(k), math.Max(0, math.Min(1, t)))
+						e = g.pt(kk).Lerp(g.pt(k), max(0, min(1, t)))
 					default:
 						continue
 					}

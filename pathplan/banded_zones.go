@@ -430,12 +430,19 @@ func trochoidRun(c geom.Shape, spine []geom.Point, clr []float64, dead bool, pit
 		}
 		return q, u, clr[i-1] + (clr[i]-clr[i-1])*t
 	}
+	// The front half of a loop asks for one centre 18 times: the last
+	// answer is kept.
+	lastQ, lastCl, lastR := geom.Point{X: math.NaN()}, 0.0, 0.0
 	radius := func(q geom.Point, cl float64) float64 {
+		if q == lastQ && cl == lastCl {
+			return lastR
+		}
 		d := 0.0
 		if c.Contains(q) {
 			d = c.DistanceToBoundary(q)
 		}
-		return math.Min(cl, d) - margin
+		lastQ, lastCl, lastR = q, cl, math.Min(cl, d)-margin
+		return lastR
 	}
 	sEnd := total
 	if dead {
