@@ -51,7 +51,7 @@ type bandedSettings struct {
 	h              float64 // grid spacing, mm
 	safe           float64 // height above a level's top at which rapids stop, mm
 	climbOnly      bool
-	// pitches caches trochoidHeldPitch by loop radius (0.5 mm steps) for
+	// pitches caches trochoidHeldPitch by floored loop radius (trochoidPitchKey) for
 	// the whole plan, shared by the features planned in parallel.
 	pitches *pitchCache
 }
@@ -847,7 +847,21 @@ func bandedEmit(b *builder, pieces []bandedPiece, c geom.Shape, z, levelTop, cle
 				pts = append(pts, b.pos.XY())
 				kinds = append(kinds, geom.Feed)
 			}
-			push(pc.pts, geom.Feed)
+			// Runs on circles are cut as arcs: a chord runs up to half its
+			// turn off the circle's direction, and the engaged arc, counted
+			// on the front half about the direction of travel, with it
+			// (5° more at the front of a loop cut in 10° chords, engage).
+			at := 0
+			for _, a := range pc.arcs {
+				push(pc.pts[at:a.from+1], geom.Feed)
+				flush()
+				to := pc.pts[a.to]
+				b.add(geom.Move{Kind: geom.Feed, To: p3(to, z), Arc: true, Center: a.c, Feed: st.feed})
+				pts = append(pts, to)
+				kinds = append(kinds, geom.Feed)
+				at = a.to
+			}
+			push(pc.pts[at:], geom.Feed)
 			sum.Rings++
 		}
 	}

@@ -156,23 +156,50 @@ func trochoidMaxPhi(r, rt, p float64) float64 {
 }
 
 // frontAngle returns the engagement angle of a tool of radius r centred at
-// (cx, cy) and moving along the unit vector (ux, uy): π times the share of
-// nA+1 samples of the front half of its circle (−90°…+90° about the feed
-// direction) that lie in material — inside the strip |y| ≤ strip and not
-// covered by earlier cuts.
+// (cx, cy) and moving along the unit vector (ux, uy): the length of the
+// part of the front half of its circle (−90°…+90° about the feed
+// direction) that lies in material — inside the strip |y| ≤ strip and not
+// covered by earlier cuts. The half circle is sampled at nA+1 points and
+// each change between material and none is located by bisection, so the
+// angle is not rounded to the sample spacing (which would read up to one
+// spacing, 3° for nA = 60, low).
 func frontAngle(cx, cy, ux, uy, r, strip float64, nA int, covered func(x, y float64) bool) float64 {
-	n := 0
-	for j := 0; j <= nA; j++ {
-		a := -math.Pi/2 + math.Pi*float64(j)/float64(nA)
+	in := func(a float64) bool {
 		ca, sa := math.Cos(a), math.Sin(a)
 		qx := cx + r*(ux*ca-uy*sa)
 		qy := cy + r*(ux*sa+uy*ca)
-		if math.Abs(qy) > strip || covered(qx, qy) {
-			continue
-		}
-		n++
+		return math.Abs(qy) <= strip && !covered(qx, qy)
 	}
-	return math.Pi * float64(n) / float64(nA+1)
+	step := math.Pi / float64(nA)
+	phi := 0.0
+	a0 := -math.Pi / 2
+	m0 := in(a0)
+	for j := 1; j <= nA; j++ {
+		a1 := -math.Pi/2 + step*float64(j)
+		m1 := in(a1)
+		switch {
+		case m0 && m1:
+			phi += a1 - a0
+		case m0 != m1:
+			// The change lies between a0 and a1.
+			lo, hi := a0, a1
+			for range 12 {
+				mid := (lo + hi) / 2
+				if in(mid) == m0 {
+					lo = mid
+				} else {
+					hi = mid
+				}
+			}
+			if m0 {
+				phi += lo - a0
+			} else {
+				phi += a1 - hi
+			}
+		}
+		a0, m0 = a1, m1
+	}
+	return phi
 }
 
 // trochoidPitch returns the largest pitch whose loops keep the engagement

@@ -30,6 +30,7 @@ var bandedMustShowShort = map[string]bool{
 	"demo/comb pocket/cycle":                       true,
 	"demo/comb pocket/in-band":                     true,
 	"demo/comb pocket/max":                         true,
+	"open_slot.json/slot/cycle":                    true,
 	"open_slot.json/slot/in-band":                  true,
 	"outside_profile.json/profile/max":             true,
 	"pocket_islands.json/island pocket/above":      true,

@@ -25,6 +25,17 @@ type bandedPiece struct {
 	// model, when set, is what the fronts take the piece to have cut
 	// instead of pts (see spiralGrow's spiral transitions).
 	model []geom.Point
+	// arcs, in order, are runs of pts that lie on circles and are cut as
+	// one arc move each (the front halves of trochoidal loops).
+	arcs []pieceArc
+}
+
+// pieceArc is a run of a piece's points, from pts[from] to pts[to], that
+// lies on the circle about c and turns counter-clockwise by less than a
+// full turn.
+type pieceArc struct {
+	from, to int
+	c        geom.Point
 }
 
 // spiralParams are the inputs of one front growth.

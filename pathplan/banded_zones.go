@@ -218,14 +218,10 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	doneCh := make([]bool, len(zones.Channels))
 	pitch := func(rt float64) float64 {
 		// The pitch grows with the loop radius, so the pitch of the radius
-		// floored to 0.5 mm is safe for the loop; the few values are kept
-		// for the whole plan.
-		key := int(math.Floor(rt / 0.5))
+		// floored is safe for the loop (trochoidPitchKey). The few values
+		// are kept for the whole plan.
+		key, rq := trochoidPitchKey(rt)
 		return st.pitches.get(key, func() float64 {
-			rq := 0.5 * float64(key)
-			if key == 0 {
-				rq = 0.25
-			}
 			return trochoidHeldPitch(st.r, rq, phiMax)
 		})
 	}
@@ -290,7 +286,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 						if d := pos.Dist(run.pts[0]); d > 1e-6 {
 							add(spiralLink(g, pos, run.pts[0], p)...)
 						}
-						add(bandedPiece{kind: pieceTrochoid, pts: run.pts})
+						add(bandedPiece{kind: pieceTrochoid, pts: run.pts, arcs: run.arcs})
 						sum.Rings++
 						for k, c := range run.centres {
 							g.markDisk(c, run.rts[k])
@@ -320,7 +316,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 				if d := pos.Dist(run.pts[0]); d > 1e-6 {
 					add(spiralLink(g, pos, run.pts[0], p)...)
 				}
-				add(bandedPiece{kind: pieceTrochoid, pts: run.pts})
+				add(bandedPiece{kind: pieceTrochoid, pts: run.pts, arcs: run.arcs})
 				sum.Rings++
 				for k, c := range run.centres {
 					g.markDisk(c, run.rts[k])
@@ -357,6 +353,19 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	return nil
 }
 
+// trochoidPitchKey floors a loop radius rt for the pitch cache: the key and
+// the radius it stands for, within 5 % of rt or 0.05 mm (0.05 mm steps up
+// to 2 mm, where the pitch is about proportional to the radius, 0.1 mm
+// steps above; never under 0.05 mm).
+func trochoidPitchKey(rt float64) (int, float64) {
+	if rt < 2 {
+		k := max(1, int(math.Floor(rt/0.05)))
+		return k, 0.05 * float64(k)
+	}
+	k := int(math.Floor(rt / 0.1))
+	return 1000 + k, 0.1 * float64(k)
+}
+
 func reversedFloats(v []float64) []float64 {
 	out := make([]float64, len(v))
 	for i, x := range v {
@@ -370,6 +379,9 @@ func reversedFloats(v []float64) []float64 {
 type bandedTrochoid struct {
 	pts, centres []geom.Point
 	rts          []float64
+	// arcs are the front halves: each runs counter-clockwise on a circle
+	// from pts[from] to pts[to] (pts between them lie on it too).
+	arcs []pieceArc
 	// short is set when the run stops before the end of its spine because
 	// the channel narrows below the smallest loop.
 	short bool
@@ -488,9 +500,13 @@ func trochoidRun(c geom.Shape, spine []geom.Point, clr []float64, dead bool, pit
 			emit(s+pch*(1-math.Cos(f))/2, math.Pi/2+f)
 		}
 		s += pch
-		// Front half: the centre stands, the tool cuts.
+		// Front half: the centre stands, the tool cuts, on one circle.
+		from := len(out.pts) - 1
 		for k := 1; k <= half; k++ {
 			emit(s, 3*math.Pi/2+math.Pi*float64(k)/half)
+		}
+		if rt := out.rts[len(out.rts)-1]; rt > 1e-3 {
+			out.arcs = append(out.arcs, pieceArc{from: from, to: len(out.pts) - 1, c: out.centres[len(out.centres)-1]})
 		}
 	}
 	return out
