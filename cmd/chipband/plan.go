@@ -18,20 +18,24 @@ import (
 )
 
 // runPlan implements `chipband plan JOB --strategy layered|banded -o OUT.nc
-// [--report R.json] [--svg OUT.svg]`: it plans one roughing strategy for a
-// job and writes the G-code.
+// [--report R.json] [--svg OUT.svg] [--lean-islands]`: it plans one
+// roughing strategy for a job and writes the G-code.
 func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fl := newFlags("plan", "plan JOB --strategy layered|banded -o OUT.nc [--report R.json] [--svg OUT.svg]", stderr)
+	fl := newFlags("plan", "plan JOB --strategy layered|banded -o OUT.nc [--report R.json] [--svg OUT.svg] [--lean-islands]", stderr)
 	strategy := fl.String("strategy", "layered", "roughing strategy: layered or banded")
 	out := fl.String("o", "", "G-code file to write (required)")
 	reportPath := fl.String("report", "", "also write a JSON report of the plan here")
 	svgPath := fl.String("svg", "", "also write an SVG top view of the path here")
+	leanIslands := fl.Bool("lean-islands", false, "banded: lean pass ends onto islands too, holding the band there at the cost of time")
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
 	}
 	if len(pos) != 1 {
 		return badInputf("want exactly one job file, got %d", len(pos))
+	}
+	if *leanIslands && *strategy != "banded" {
+		return badInputf("--lean-islands applies to --strategy banded only")
 	}
 	if *out == "" {
 		return badInputf("-o OUT.nc is required")
@@ -55,7 +59,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	case "layered":
 		plan, err = pathplan.PlanLayered(ctx, job, pathplan.Options{})
 	case "banded":
-		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{})
+		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{LeanIslands: *leanIslands})
 	default:
 		return badInputf("unknown strategy %q (want layered or banded)", *strategy)
 	}
@@ -91,14 +95,19 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	}
 	if *reportPath != "" {
 		pr := planReport(plan, rep)
-		if plan.Strategy == "banded" && job.Machine != nil {
+		if plan.Strategy == "banded" {
 			// Per feature: engagement by simulation, R1 cycle time and
-			// the ratio to the material-removal bound (issue 6).
-			br, err := pathplan.BandedReport(ctx, plan, *job.Machine)
+			// the ratio to the material-removal bound (issue 6), on the
+			// job's machine or else compare's default one.
+			m, src := pathplan.DemoMachine(), "default"
+			if job.Machine != nil {
+				m, src = *job.Machine, "job"
+			}
+			br, err := pathplan.BandedReport(ctx, plan, m)
 			if err != nil {
 				return fmt.Errorf("banded report: %w", err)
 			}
-			pr.Banded = br
+			pr.Banded, pr.BandedMachine, pr.BandedMachineSource = br, m.Name, src
 		}
 		data, err := json.MarshalIndent(pr, "", "  ")
 		if err != nil {
@@ -123,8 +132,12 @@ type planReportJSON struct {
 	TotalS    *float64                  `json:"total_s,omitempty"`
 	Timing    *timing.Report            `json:"timing,omitempty"`
 	Operation map[string]float64        `json:"operation_s,omitempty"`
-	// Banded is the per-feature report of a banded plan.
-	Banded []pathplan.BandedFeatureReport `json:"banded,omitempty"`
+	// Banded is the per-feature report of a banded plan, timed on
+	// BandedMachine: the job's machine (source "job") or, when the job
+	// names none, the machine compare uses by default (source "default").
+	Banded              []pathplan.BandedFeatureReport `json:"banded,omitempty"`
+	BandedMachine       string                         `json:"banded_machine,omitempty"`
+	BandedMachineSource string                         `json:"banded_machine_source,omitempty"`
 }
 
 func planReport(p *pathplan.Plan, rep *timing.Report) planReportJSON {
