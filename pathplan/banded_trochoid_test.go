@@ -86,3 +86,20 @@ func TestTrochoidHeldPitchEngage(t *testing.T) {
 		}
 	}
 }
+
+// The pitch cache's floored radius never exceeds the loop's (a larger one
+// would give a pitch the loop cannot hold) and lies within 0.1 mm or 5 %
+// of it, whichever is more; equal keys stand for equal radii.
+func TestTrochoidPitchKey(t *testing.T) {
+	seen := map[int]float64{}
+	for rt := 0.0; rt < 8; rt += 0.0007 {
+		k, rq := trochoidPitchKey(rt)
+		if rq > rt+1e-12 || rt-rq > max(0.1, 0.05*rt)+1e-12 {
+			t.Fatalf("rt %.4f: floored to %.4f", rt, rq)
+		}
+		if v, ok := seen[k]; ok && v != rq {
+			t.Fatalf("key %d stands for %.4f and %.4f", k, v, rq)
+		}
+		seen[k] = rq
+	}
+}

@@ -354,12 +354,16 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 }
 
 // trochoidPitchKey floors a loop radius rt for the pitch cache: the key and
-// the radius it stands for, within 5 % of rt or 0.05 mm (0.05 mm steps up
-// to 2 mm, where the pitch is about proportional to the radius, 0.1 mm
-// steps above; never under 0.05 mm).
+// the radius, never above rt, that it stands for: 0.05 mm steps up to 2 mm,
+// where the pitch is about proportional to the radius, 0.1 mm steps above,
+// and 0.001 mm steps under 0.05 mm (loops of tools under 1 mm).
 func trochoidPitchKey(rt float64) (int, float64) {
-	if rt < 2 {
-		k := max(1, int(math.Floor(rt/0.05)))
+	switch {
+	case rt < 0.05:
+		k := max(0, int(math.Floor(rt/0.001)))
+		return -1 - k, 0.001 * float64(k)
+	case rt < 2:
+		k := int(math.Floor(rt / 0.05))
 		return k, 0.05 * float64(k)
 	}
 	k := int(math.Floor(rt / 0.1))
