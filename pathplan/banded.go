@@ -60,7 +60,7 @@ type bandedSettings struct {
 	safe           float64 // height above a level's top at which rapids stop, mm
 	climbOnly      bool
 	leanIslands    bool
-	// pitches caches trochoidHeldPitch by floored loop radius (trochoidPitchKey) for
+	// pitches caches trochoidHeldPitch at the knots of trochoidPitchAt for
 	// the whole plan, shared by the features planned in parallel.
 	pitches *pitchCache
 }
@@ -623,6 +623,9 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
 	g.initStock(fc, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	g.boundary = comp.c
+	if len(fc) > 0 && &fc[0] != &comp.c[0] {
+		g.outer = newBandedWalls(comp.c, max(1, 8*st.h))
+	}
 	p := newSpiralParams(st)
 	var start []spiralFront
 	var pos geom.Point

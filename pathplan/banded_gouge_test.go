@@ -1,6 +1,8 @@
 package pathplan
 
 import (
+	"context"
+	"encoding/hex"
 	"math"
 	"testing"
 
@@ -110,5 +112,31 @@ func TestBandedExactGougeClockwiseArc(t *testing.T) {
 	}}
 	if g, _ := bandedExactGouge(tp, keep, 3, 0); math.Abs(g-2) > 1e-3 {
 		t.Errorf("gouge %.4f, want 2", g)
+	}
+}
+
+// A link between a pass end and the next pass that both stand just outside
+// the tool-centre domain, beside the rounded corner of an island, must not
+// take the chord between them: the domain lies up to its offset tolerance
+// outside the true one, so the ends clear the island, but a 0.22 mm chord
+// across an arc of radius 3 has a sagitta of 0.002 mm (L²/8r, elementary
+// geometry) and came 0.0002 mm into the island's corner (500-job property
+// run, job 349). The link now goes by the raster's nodes, and no move comes
+// nearer a wall than the tool radius (exact distances).
+func TestBandedLinkAroundIslandCorner(t *testing.T) {
+	data, err := hex.DecodeString("46c9a9f5bc6519a32f8b6faa738c39b7b4cea5faf75064c75183e45b5c3473694e6f4b803501798c1341087b974c75e8b5c83d45c59dfe6db1e7ca282b661973")
+	if err != nil {
+		t.Fatal(err)
+	}
+	j := genJob(data)
+	if err := j.Validate(); err != nil {
+		t.Fatalf("generated job is invalid: %v", err)
+	}
+	p, err := PlanBanded(context.Background(), j, BandedOptions{NoVerify: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if g, gm := genExactGouge(p, keepShape(t, j), j.Stock.Top, j.Tool.Radius()); g > 1e-6 {
+		t.Errorf("move %d comes %.5f mm into a wall", gm, g)
 	}
 }

@@ -22,6 +22,9 @@ type bandedGrid struct {
 	bfsGen    []uint32
 	gen       uint32
 	walls     *bandedWalls // the domain outline, for exact link checks
+	// outer is the outline of boundary, when it is set: links in the
+	// strip between the two outlines must not leave it either.
+	outer *bandedWalls
 	// stock is the material of the level, shared by the grids of one
 	// domain part's bays; nil: fronts step from the previous front alone.
 	stock *bandedStock
@@ -39,6 +42,7 @@ type bandedGrid struct {
 // only to a node, and a straight leg between two inside nodes can cut a
 // convex corner of an island by up to half a node spacing.
 type bandedWalls struct {
+	shape        geom.Shape
 	x0, y0, cell float64
 	nx, ny       int
 	edges        [][2]geom.Point
@@ -50,7 +54,7 @@ type bandedWalls struct {
 // newBandedWalls buckets the edges of c in square cells of side cell.
 func newBandedWalls(c geom.Shape, cell float64) *bandedWalls {
 	b := c.Bounds()
-	w := &bandedWalls{x0: b.Min.X - cell, y0: b.Min.Y - cell, cell: cell}
+	w := &bandedWalls{shape: c, x0: b.Min.X - cell, y0: b.Min.Y - cell, cell: cell}
 	w.nx = int(math.Ceil(b.Width()/cell)) + 3
 	w.ny = int(math.Ceil(b.Height()/cell)) + 3
 	w.bucket = make([][]int32, w.nx*w.ny)
@@ -84,6 +88,48 @@ func (w *bandedWalls) span(a, b geom.Point) (i0, j0, i1, j1 int) {
 // buckets along the segment (each sample's bucket and its eight
 // neighbours, samples a quarter bucket apart, so every bucket the segment
 // touches is visited) rather than its whole bounding box.
+// crossesWalls reports whether the segment ab crosses the outline of the
+// grid's domain or, when set, that of its boundary, or runs further out
+// of the tool-centre domain (the boundary, else the domain) than its ends.
+func (g *bandedGrid) crossesWalls(a, b geom.Point) bool {
+	if g.walls != nil && g.walls.crosses(a, b) || g.outer != nil && g.outer.crosses(a, b) {
+		return true
+	}
+	dom := g.outer
+	if dom == nil {
+		dom = g.walls
+	}
+	return dom != nil && dom.bulges(a, b)
+}
+
+// bulges reports whether the segment ab, one of whose ends lies outside
+// the shape, runs further out of it than its ends do (by 1e-6 mm). The
+// tool-centre domain lies up to its offset tolerance outside the true
+// one, so ends may stand just outside it and still clear the walls; a
+// chord between two such ends across a rounded corner of an island, though,
+// cuts into the corner (its sagitta L²/8r exceeds the tolerance from
+// L = 0.22 mm for r = 3, tolerance 0.002), which no crossing shows.
+func (w *bandedWalls) bulges(a, b geom.Point) bool {
+	out := func(q geom.Point) float64 {
+		if w.shape.Contains(q) {
+			return 0
+		}
+		return w.shape.DistanceToBoundary(q)
+	}
+	da, db := out(a), out(b)
+	if da == 0 && db == 0 {
+		return false
+	}
+	lim := max(da, db) + 1e-6
+	n := int(math.Ceil(a.Dist(b) / 0.02))
+	for k := 1; k < n; k++ {
+		if out(a.Lerp(b, float64(k)/float64(n))) > lim {
+			return true
+		}
+	}
+	return false
+}
+
 func (w *bandedWalls) crosses(a, b geom.Point) bool {
 	w.gen++
 	if len(w.seen) != len(w.bucket) {

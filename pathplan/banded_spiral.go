@@ -218,7 +218,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 					// would cut the inside of its bends.
 					out = append(out, bandedPiece{kind: pieceLink, pts: back})
 				} else if d := pos.Dist(turn[0]); d > 1e-6 {
-					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) && (g.walls == nil || !g.walls.crosses(pos, turn[0])) && linkFree(g, pos, turn[0], p.maxStep+2*p.h) {
+					if d <= 2*p.maxStep+2*p.h+math.Max(4*p.maxStep, 1.5) && !g.crossesWalls(pos, turn[0]) && linkFree(g, pos, turn[0], p.maxStep+2*p.h) {
 						out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{pos, turn[0]}})
 					} else {
 						out = append(out, spiralLink(g, pos, turn[0], p)...)
@@ -304,7 +304,7 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 			t := rr[(bk+1)%n].Sub(rr[bk]).Unit()
 			nrm := geom.Pt(t.Y, -t.X) // the domain lies right of the climb direction
 			from := bq.Sub(t.Scale(lead)).Add(nrm.Scale(step))
-			if from.Dist(bq) > 1e-9 && c.Contains(from) && c.DistanceToBoundary(from) > 0.5*step && (g.walls == nil || !g.walls.crosses(from, bq)) {
+			if from.Dist(bq) > 1e-9 && c.Contains(from) && c.DistanceToBoundary(from) > 0.5*step && !g.crossesWalls(from, bq) {
 				if d := pos.Dist(from); d > 1e-6 {
 					out = append(out, spiralLink(g, pos, from, p)...)
 				}
@@ -472,7 +472,7 @@ func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p s
 	// A blend of two passes inside the domain may still leave it where
 	// the domain is not convex.
 	for i := 1; i < len(ramp); i++ {
-		if g.walls != nil && g.walls.crosses(ramp[i-1], ramp[i]) {
+		if g.crossesWalls(ramp[i-1], ramp[i]) {
 			return nil, nil
 		}
 	}
@@ -634,7 +634,7 @@ func nearestReached(g *bandedGrid, p geom.Point) geom.Point {
 				k := j*g.nx + i
 				// The leg to the node is straight: it must not cross the
 				// domain's outline (a far node can lie round a corner).
-				if g.in[k] && g.reached[k] && g.freeNode(k) && (g.walls == nil || !g.walls.crosses(p, g.pt(k))) {
+				if g.in[k] && g.reached[k] && g.freeNode(k) && !g.crossesWalls(p, g.pt(k)) {
 					if d := g.pt(k).Dist(p); d < bd {
 						best, bd = k, d
 					}
@@ -660,7 +660,7 @@ func abs(i int) int {
 func linkClear(g *bandedGrid, a, b geom.Point, slack float64) bool {
 	// The nodes first; the exact outline decides (the costlier check,
 	// so it comes last).
-	return linkNodesClear(g, a, b, slack) && (g.walls == nil || !g.walls.crosses(a, b))
+	return linkNodesClear(g, a, b, slack) && !g.crossesWalls(a, b)
 }
 
 // linkFree reports whether the tool bites no more than the allowed depth
@@ -786,7 +786,14 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 	for i, j := 0, len(nodes)-1; i < j; i, j = i+1, j-1 {
 		nodes[i], nodes[j] = nodes[j], nodes[i]
 	}
-	nodes[0], nodes[len(nodes)-1] = a, b
+	// The ends replace their nodes, unless the leg they would then make
+	// runs out of the domain (two ends just outside it, across the rounded
+	// corner of an island): then the nodes stay as a way in and out.
+	if len(nodes) > 2 || !g.crossesWalls(a, b) {
+		nodes[0], nodes[len(nodes)-1] = a, b
+	} else {
+		nodes = append(append([]geom.Point{a}, nodes...), b)
+	}
 	// String pulling on the nodes, then the exact outline check of each
 	// leg (shortened until it holds; a leg between neighbouring nodes is
 	// kept).
@@ -797,7 +804,7 @@ func gridPath(g *bandedGrid, a, b geom.Point, slack float64) []geom.Point {
 		for j > i+1 && !linkNodesClear(g, nodes[i], nodes[j], slack) {
 			j--
 		}
-		if j > i+1 && g.walls != nil && g.walls.crosses(nodes[i], nodes[j]) {
+		if j > i+1 && g.crossesWalls(nodes[i], nodes[j]) {
 			// Keep the node chain here: legs between neighbouring nodes
 			// inside the domain clip a convex outline arc of radius R by
 			// at most (1.5 h)²/(8R), below the domain's margin for the
