@@ -402,15 +402,15 @@ type bandedTrochoid struct {
 // moves to the left of the spine and the material lies on its right). The
 // loop centre advances one pitch along the spine while the tool is on the
 // back half of the loop, in the cleared slot, and stands while the front
-// half cuts (trochoidHeldPoint). The loop radius is the spine's clearance, held inside the domain
-// c, so the tool reaches the walls; the pitch is trochoidPitch for that
-// radius and the band maximum. The first loop is centred one loop radius
-// back from the spine's start, inside the cleared bay, so the engagement
-// grows from nothing. With dead set the run stops where the clearance falls
-// below 60 % of its largest value (the tip of a dead end, which the wall
-// pass clears); otherwise it runs to the spine's end. The radius is floored
-// to 0.5 mm steps for the pitch, so a pitch is never chosen for a loop
-// smaller than the one cut.
+// half cuts (trochoidHeldPoint); the front half, on one circle, is
+// recorded as an arc. The loop radius is the spine's clearance, held
+// inside the domain c, so the tool reaches the walls; pitch gives the
+// pitch for a loop radius (trochoidPitchAt over trochoidHeldPitch at the
+// band maximum). The first loop is centred one loop radius back from the
+// spine's start, inside the cleared bay, so the engagement grows from
+// nothing. With dead set the run stops where the clearance falls below
+// 60 % of its largest value (the tip of a dead end, which the wall pass
+// clears); otherwise it runs to the spine's end.
 func trochoidRun(c geom.Shape, spine []geom.Point, clr []float64, dead bool, pitch func(float64) float64, st bandedSettings) bandedTrochoid {
 	var out bandedTrochoid
 	n := len(spine)
