@@ -624,3 +624,23 @@ func TestSecondLevel(t *testing.T) {
 		}
 	})
 }
+
+// The two readings of the 1 mm moving average: MaxEng also counts a cutting
+// run shorter than 1 mm after air over its own length, MaxEngFull only full
+// 1 mm windows. A 2 mm run at ae/D 0.075, air, then a 0.4 mm run at 0.3
+// and air again read 0.3 and 0.075 (the definitions, by arithmetic).
+func TestMovingAverageReadings(t *testing.T) {
+	s := &simulator{t: tool10}
+	feed := func(n int, ae float64, class SampleClass) {
+		for range n {
+			s.account(&Sample{Class: class, Step: 0.1, AE: ae})
+		}
+	}
+	feed(20, 0.75, Cut)
+	feed(3, 0, Air)
+	feed(4, 3, Cut)
+	feed(3, 0, Air)
+	s.finish()
+	near(t, "max engagement (runs under 1 mm too)", s.sum.MaxEng, 0.3, 1e-9)
+	near(t, "max engagement over full windows", s.sum.MaxEngFull, 0.075, 1e-9)
+}

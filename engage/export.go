@@ -147,7 +147,7 @@ func WriteSummaryJSON(w io.Writer, sum Summary) error {
 func roundSummary(s Summary) Summary {
 	r4 := func(p *float64) { *p = round(*p, 4) }
 	for _, p := range []*float64{&s.Length, &s.CutLength, &s.EntryLength, &s.PlungeLength, &s.AirLength, &s.RapidLength,
-		&s.MaxAeD, &s.MeanAeD, &s.MaxPhi, &s.MeanPhi, &s.MaxEng, &s.InBandFraction, &s.AboveBandFraction, &s.AirFraction,
+		&s.MaxAeD, &s.MeanAeD, &s.MaxPhi, &s.MeanPhi, &s.MaxEng, &s.MaxEngFull, &s.InBandFraction, &s.AboveBandFraction, &s.AirFraction,
 		&s.MaxAP, &s.BeyondFlute, &s.MaxGouge, &s.GougeAt.X, &s.GougeAt.Y, &s.GougeAt.Z} {
 		r4(p)
 	}

@@ -137,6 +137,12 @@ type Summary struct {
 	MaxPhi  float64 `json:"max_phi_deg"`    // largest engagement angle, degrees
 	MeanPhi float64 `json:"mean_phi_deg"`   // length-weighted mean angle, degrees
 	MaxEng  float64 `json:"max_engagement"` // largest 1 mm moving average of ae/D over cutting
+	// MaxEngFull is MaxEng over full 1 mm windows only. A window runs over
+	// consecutive cutting samples; MaxEng also counts a run shorter than
+	// 1 mm (after air, an entry or a rapid) over its own length, where
+	// MaxEngFull leaves it out (0 when no run reaches 1 mm). The two
+	// readings differ where the tool first bites after air.
+	MaxEngFull float64 `json:"max_engagement_full"`
 
 	Band              [2]float64 `json:"band"`
 	InBandFraction    float64    `json:"in_band_fraction"`    // share of cutting length with ae/D in [0.8·min, 1.1·max]
@@ -603,6 +609,9 @@ func (s *simulator) account(p *Sample) {
 	}
 	if s.winLen > 0 {
 		sum.MaxEng = math.Max(sum.MaxEng, s.winSum/s.winLen)
+		if s.winLen >= 1-1e-9 {
+			sum.MaxEngFull = math.Max(sum.MaxEngFull, s.winSum/s.winLen)
+		}
 	}
 }
 
