@@ -18,6 +18,19 @@ import (
 // material key). It is an entry of engage.TypicalKienzle.
 const DefaultMaterial = "aluminium"
 
+// MachineFor returns the machine to time a job on, and where it comes
+// from: override when set ("option"), else the job's own ("job"), else
+// DemoMachine ("default"). Compare and the banded plan report use it.
+func MachineFor(job *Job, override *timing.Machine) (timing.Machine, string) {
+	switch {
+	case override != nil:
+		return *override, "option"
+	case job.Machine != nil:
+		return *job.Machine, "job"
+	}
+	return DemoMachine(), "default"
+}
+
 // DemoMachine returns the machine Compare uses when neither the caller nor
 // the job names one: a small bench mill with the values of
 // testdata/machines/bench-mill.json (an invented machine).
@@ -365,14 +378,7 @@ func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {
 	if c.Band[1] <= 0 {
 		c.Band = [2]float64{0.05, 0.10} // the planners' default band
 	}
-	switch {
-	case opts.Machine != nil:
-		c.Machine, c.MachineSource = *opts.Machine, "option"
-	case job.Machine != nil:
-		c.Machine, c.MachineSource = *job.Machine, "job"
-	default:
-		c.Machine, c.MachineSource = DemoMachine(), "default"
-	}
+	c.Machine, c.MachineSource = MachineFor(job, opts.Machine)
 	if err := c.Machine.Validate(); err != nil {
 		return nil, &JobError{Msg: fmt.Sprintf("machine: %v", err)}
 	}

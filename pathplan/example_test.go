@@ -66,3 +66,16 @@ func ExampleReadJob() {
 	// Output:
 	// feature "slot A": depth must be positive, got 0
 }
+
+// A job that names no machine is timed on the default one.
+func ExampleMachineFor() {
+	job := pathplan.DemoJob()
+	m, src := pathplan.MachineFor(job, nil)
+	fmt.Println(m.Name, src)
+	job.Machine = nil
+	m, src = pathplan.MachineFor(job, nil)
+	fmt.Println(m.Name, src)
+	// Output:
+	// demo router job
+	// bench mill default
+}

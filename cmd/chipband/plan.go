@@ -99,10 +99,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 			// Per feature: engagement by simulation, R1 cycle time and
 			// the ratio to the material-removal bound (issue 6), on the
 			// job's machine or else compare's default one.
-			m, src := pathplan.DemoMachine(), "default"
-			if job.Machine != nil {
-				m, src = *job.Machine, "job"
-			}
+			m, src := pathplan.MachineFor(job, nil)
 			br, err := pathplan.BandedReport(ctx, plan, m)
 			if err != nil {
 				return fmt.Errorf("banded report: %w", err)
