@@ -687,17 +687,37 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		c, rad, _, err := offset.DeepestPointOfShape(comp.c, 0.01)
 		_ = err
 		hr := math.Min(st.helixR, rad-0.02)
-		if hr < 0.1*st.r {
-			return errors.New("no entry fits: the domain is narrower than a helix of a tenth of the tool radius")
+		// Where no helix fits (a closed slot little wider than the
+		// tool), the tool ramps down along a straight stretch of the
+		// domain instead. A helix, even one smaller than the cut data's,
+		// is preferred: it leaves a bore wider than the tool, where a
+		// ramp leaves a slot of the tool's width whose ends the fronts
+		// then meet in full slotting (measured on an 8 mm wide closed
+		// slot for a 6 mm tool: 1 mm moving-average maximum 0.34 after
+		// a helix, 0.92 after a ramp).
+		if hr >= 0.1*st.r {
+			g.markDisk(c, hr)
+			g.stampDisk(c, hr)
+			circ := geom.Circle(c, hr, max(24, int(2*math.Pi*hr/st.h)))
+			// Clockwise, material outside on the left.
+			pts := append(circ.Reversed(), circ.Reversed()[0])
+			start = []spiralFront{{pts: pts, closed: true, steps: spiralSteps(pts, true, p)}}
+			pos = pts[0]
+			bandedHelixEntry(b, job, fi, c, pos, hr, levelTop, z, clear, st, sum)
+		} else if ra, rb, ok := bandedRampStretch(fc, c, st.r, 0.02); ok {
+			for i, n := 0, int(math.Ceil(ra.Dist(rb)/st.h)); i <= n; i++ {
+				g.markDisk(ra.Lerp(rb, float64(i)/float64(n)), 0.5*st.h)
+			}
+			g.stampPath([]geom.Point{ra, rb})
+			// The column the whole stretch sweeps lies within half its
+			// length plus r of its middle.
+			top := bandedEntryTop(job, fi, ra.Lerp(rb, 0.5), 0.5*ra.Dist(rb), levelTop, st)
+			pos = bandedRamp(b, ra, rb, top, z, clear, st)
+			sum.Entries++
+			start = []spiralFront{bandedStadiumFront(ra, rb, pos, 0.5*st.h, p)}
+		} else {
+			return errors.New("no entry fits: the domain is narrower than a helix of a tenth of the tool radius and has no straight stretch of a tool radius for a ramp")
 		}
-		g.markDisk(c, hr)
-		g.stampDisk(c, hr)
-		circ := geom.Circle(c, hr, max(24, int(2*math.Pi*hr/st.h)))
-		// Clockwise, material outside on the left.
-		pts := append(circ.Reversed(), circ.Reversed()[0])
-		start = []spiralFront{{pts: pts, closed: true, steps: spiralSteps(pts, true, p)}}
-		pos = pts[0]
-		bandedHelixEntry(b, job, fi, c, pos, hr, levelTop, z, clear, st, sum)
 	}
 	pieces, _, err := spiralGrow(ctx, g, fc, start, pos, p)
 	if err != nil {
