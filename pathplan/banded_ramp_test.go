@@ -113,9 +113,11 @@ func TestBandedRampEntry(t *testing.T) {
 				t.Errorf("ramp stretch %.2f mm, want %.0f mm along the slot", l, 4*job.Tool.Diameter)
 			}
 			// Not checked here: the 0.2 % of uncut reachable area.
-			// These keyways leave 0.56–0.8 mm² (0.2–0.3 %) at two corners
-			// of the reachable region, with a helix or a ramp alike (the
-			// README's known limits).
+			// These keyways read 0.56–0.8 mm² (0.2–0.3 %), with a helix or
+			// a ramp alike: whole 0.2 mm cells whose centres lie under
+			// 0.03 mm inside the round corners of the reachable region,
+			// which the wall pass's 0.1 mm corner fillets miss (README,
+			// known limits).
 			for _, tg := range s.Targets {
 				if strings.HasSuffix(tg.Name, " (reachable)") {
 					t.Logf("%s: %.2f mm² uncut of %.0f mm²", tg.Name, tg.UncutArea, plan.Features[0].Area)
