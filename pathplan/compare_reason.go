@@ -52,7 +52,11 @@ func decide(fc *FeatureComparison, models []string) {
 
 	slim := ""
 	if d := fc.DepthPerD; d > 0 && fc.Width > 0 {
-		slim = fmt.Sprintf("it is only %s mm wide (%.1f × D), so banded must work it in narrow loops with many turns", trim(fc.Width), fc.Width/(fc.Depth/d))
+		how := "short passes across it that stop and turn at both walls"
+		if fc.ChannelShare >= 0.5 {
+			how = "narrow trochoidal loops"
+		}
+		slim = fmt.Sprintf("it is only %s mm wide (%.1f × D), so banded must work it in %s", trim(fc.Width), fc.Width/(fc.Depth/d), how)
 	}
 	narrowWidth := slim != "" && fc.Width < 2.5*fc.Depth/fc.DepthPerD
 	deep := fc.DepthPerD >= 1
