@@ -112,6 +112,9 @@ type Comparison struct {
 	Models []string `json:"models"`
 	// Band is the radial-engagement band of the job (ae/D).
 	Band [2]float64 `json:"band"`
+	// LeanIslands is set when the banded plan leaned its pass ends onto
+	// islands too (CompareOptions.Banded.LeanIslands).
+	LeanIslands bool `json:"lean_islands"`
 	// Layered and Banded are the plans compared.
 	Layered *Plan `json:"-"`
 	Banded  *Plan `json:"-"`
@@ -374,7 +377,7 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 // newComparison resolves the machine, the band and the work material of a
 // comparison.
 func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {
-	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band}
+	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, LeanIslands: opts.Banded.LeanIslands}
 	if c.Band[1] <= 0 {
 		c.Band = [2]float64{0.05, 0.10} // the planners' default band
 	}

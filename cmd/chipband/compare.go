@@ -16,15 +16,17 @@ import (
 	"github.com/chipband/chipband/timing"
 )
 
-const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--json] [--html R.html] [--quiet]"
+const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--lean-islands] [--json] [--html R.html] [--quiet]"
 
-// runCompare implements `chipband compare JOB [--machine M] [--json]
-// [--html R.html] [--quiet]`: it plans both strategies for every feature,
-// times and simulates them and recommends one per feature.
+// runCompare implements `chipband compare JOB [--machine M] [--material
+// NAME] [--lean-islands] [--json] [--html R.html] [--quiet]`: it plans both
+// strategies for every feature, times and simulates them and recommends one
+// per feature.
 func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fl := newFlags("compare", compareSynopsis, stderr)
 	machinePath := fl.String("machine", "", "machine file (JSON); default: the job's machine, else the built-in bench mill")
 	material := fl.String("material", pathplan.DefaultMaterial, "work material for spindle power: "+materialNames())
+	leanIslands := fl.Bool("lean-islands", false, "plan banded with its pass ends leaned onto islands too, as plan --lean-islands does")
 	asJSON := fl.Bool("json", false, "write the comparison as JSON on stdout")
 	htmlPath := fl.String("html", "", "also write a self-contained HTML report here")
 	quiet := fl.Bool("quiet", false, "no progress on stderr")
@@ -40,6 +42,7 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 		return badInput(err)
 	}
 	opts := pathplan.CompareOptions{Material: *material, Detail: *htmlPath != ""}
+	opts.Banded.LeanIslands = *leanIslands
 	if *machinePath != "" {
 		m, err := loadMachine(*machinePath)
 		if err != nil {
@@ -158,8 +161,12 @@ func writeComparison(w io.Writer, c *pathplan.Comparison) error {
 	}
 	fmt.Fprintf(&b, "%s: %d features on %s (%s), accel %g/%g/%g mm/s², models %s\n",
 		name, len(c.Features), mname, src, c.Machine.Accel.X, c.Machine.Accel.Y, c.Machine.Accel.Z, strings.Join(c.Models, " and "))
-	fmt.Fprintf(&b, "spindle power for %s (kc1.1 %g N/mm², mc %g); band %g–%g of D; times under R1\n\n",
-		c.Material, c.Kienzle.Kc11, c.Kienzle.Mc, c.Band[0], c.Band[1])
+	lean := ""
+	if c.LeanIslands {
+		lean = "; banded pass ends lean onto islands"
+	}
+	fmt.Fprintf(&b, "spindle power for %s (kc1.1 %g N/mm², mc %g); band %g–%g of D%s; times under R1\n\n",
+		c.Material, c.Kienzle.Kc11, c.Kienzle.Mc, c.Band[0], c.Band[1], lean)
 	jerk := len(c.Models) > 1
 	hdr := []string{"feature", "strategy", "levels", "cycle"}
 	if jerk {

@@ -115,3 +115,53 @@ func TestClock(t *testing.T) {
 		}
 	}
 }
+
+// compare --lean-islands plans banded as plan --lean-islands does: the JSON
+// says so, the header names it, and the banded plan of a pocket around an
+// island changes (its pass ends at the island lean).
+func TestCompareLeanIslands(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "island.json")
+	err := os.WriteFile(p, []byte(`{
+  "name": "ring pocket",
+  "stock": {"outline": "POLYGON ((0 0, 60 0, 60 50, 0 50, 0 0))", "top": 0},
+  "features": [{"name": "ring", "region": "POLYGON ((8 8, 52 8, 52 42, 8 42, 8 8), (26 21, 26 29, 34 29, 34 21, 26 21))", "depth": 4}],
+  "tool": {"diameter": 6, "flute_length": 20, "flutes": 3},
+  "cut": {"band": [0.05, 0.1], "spindle_rpm": 18000, "chip_load": 0.03,
+          "layered": {"stepover": 0.5, "stepdown": 2}},
+  "clearance": 5
+}`), 0o644)
+	if err != nil {
+		t.Fatal(err)
+	}
+	type result struct {
+		LeanIslands bool `json:"lean_islands"`
+		Features    []struct {
+			Banded struct {
+				CycleS float64 `json:"cycle_s"`
+			} `json:"banded"`
+		} `json:"features"`
+	}
+	run := func(args ...string) result {
+		t.Helper()
+		code, out, stderr := runCLI(t, append([]string{"compare", p, "--json", "--quiet"}, args...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var r result
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatalf("not JSON: %v", err)
+		}
+		return r
+	}
+	off, on := run(), run("--lean-islands")
+	if off.LeanIslands || !on.LeanIslands {
+		t.Errorf("lean_islands %v without the flag, %v with it", off.LeanIslands, on.LeanIslands)
+	}
+	if a, b := off.Features[0].Banded.CycleS, on.Features[0].Banded.CycleS; a == b {
+		t.Errorf("banded cycle %.1f s with and without --lean-islands: the flag did not reach the planner", a)
+	}
+	code, out, stderr := runCLI(t, "compare", p, "--quiet", "--lean-islands")
+	if code != 0 || !strings.Contains(out, "banded pass ends lean onto islands") {
+		t.Errorf("exit %d, header does not name the lean:\n%s%s", code, out, stderr)
+	}
+}
