@@ -93,8 +93,12 @@ func (r *reportWriter) page() {
 		r.p("Tool: flat end mill D%s mm, %d flutes, flute length %s mm; %s rpm, chip load %s mm. ",
 			trim(j.Tool.Diameter), j.Tool.Flutes, trim(j.Tool.FluteLength), trim(j.Cut.SpindleRPM), trim(j.Cut.ChipLoad))
 	}
-	r.p("Band %s–%s of D. Spindle power for %s. Times from speed model %s; the recommendation follows R1.</p>\n",
-		trim(c.Band[0]), trim(c.Band[1]), esc(c.Material), esc(strings.Join(c.Models, " and ")))
+	lean := ""
+	if c.LeanIslands {
+		lean = " Banded pass ends lean onto islands too."
+	}
+	r.p("Band %s–%s of D.%s Spindle power for %s. Times from speed model %s; the recommendation follows R1.</p>\n",
+		trim(c.Band[0]), trim(c.Band[1]), lean, esc(c.Material), esc(strings.Join(c.Models, " and ")))
 	r.p("<div class=\"caution\" id=\"caution\"><b>Caution.</b> %s</div>\n", esc(SafetyCaution))
 
 	r.table()
