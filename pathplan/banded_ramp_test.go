@@ -216,7 +216,9 @@ func TestBandedRampRandomSlots(t *testing.T) {
 			}
 		}
 	}
-	if planned < n/2 {
+	// About half the bent slots have room for a helix at the bend; the
+	// rest must exercise the ramp.
+	if 3*planned < n {
 		t.Errorf("only %d of %d slots ramped in", planned, n)
 	}
 	t.Logf("%d of %d slots ramped in", planned, n)
