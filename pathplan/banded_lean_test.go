@@ -3,6 +3,7 @@ package pathplan
 import (
 	"context"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/chipband/chipband/geom"
@@ -163,5 +164,53 @@ func TestBandedLeanIslands(t *testing.T) {
 	}
 	if above[false] <= 0.01 {
 		t.Errorf("not leaned: %.4f above the band; the crescent should show (> 0.01)", above[false])
+	}
+}
+
+// Direct turns drop the two stops each wall visit spends going back along
+// the pass just cut and drifting onto the next: on a narrow open slot
+// (invented: 14 mm wide, 12 mm deep, D6) on the demo router's 400 mm/s²,
+// R1 (design.md) then times the plan shorter, and the path stays as clear
+// of the walls and the stock as before.
+func TestBandedDirectTurns(t *testing.T) {
+	if testing.Short() {
+		t.Skip("plans and simulates a slot twice")
+	}
+	ctx := context.Background()
+	demo := DemoJob()
+	job, err := ReadJob(strings.NewReader(`{"name":"through slot","stock":{"outline":"POLYGON ((0 0, 40 0, 40 30, 0 30, 0 0))","top":0},
+"features":[{"name":"slot","region":"POLYGON ((-10 8, 50 8, 50 22, -10 22, -10 8))","depth":12}],
+"tool":{"diameter":6,"flute_length":20,"flutes":3},
+"cut":{"band":[0.05,0.1],"allowance":0,"spindle_rpm":16000,"chip_load":0.03,"layered":{"stepover":0.5,"stepdown":2}},
+"clearance":5}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	keep, err := bandedKeep(job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cycle := map[bool]float64{}
+	for _, direct := range []bool{false, true} {
+		plan, err := PlanBanded(ctx, job, BandedOptions{DirectTurns: direct})
+		if err != nil {
+			t.Fatal(err)
+		}
+		rep, err := BandedReport(ctx, plan, *demo.Machine)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s := rep[0].Engagement
+		cycle[direct] = rep[0].CycleS
+		t.Logf("direct %v: in-band %.3f above %.4f 1 mm MA %.3f air %.3f cycle %.1f s", direct, s.InBandFraction, s.AboveBandFraction, s.MaxEng, s.AirFraction, rep[0].CycleS)
+		if g, m := bandedExactGouge(&plan.Path, keep, job.Tool.Radius(), job.Stock.Top); g > 0.005 {
+			t.Errorf("direct %v: wall gouge %.4f mm in move %d", direct, g, m)
+		}
+		if n := len(s.RapidViolations); n > 0 {
+			t.Errorf("direct %v: %d rapids through material", direct, n)
+		}
+	}
+	if cycle[true] >= cycle[false] {
+		t.Errorf("direct turns %.1f s, drifting turns %.1f s: want direct turns faster", cycle[true], cycle[false])
 	}
 }

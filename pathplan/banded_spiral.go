@@ -49,6 +49,9 @@ type spiralParams struct {
 	// climbOnly keeps every pass in climb; otherwise an open pass may run
 	// either way, whichever end is nearer.
 	climbOnly bool
+	// directTurns steps straight onto the next pass at walls, without
+	// spiralTurn's drift (BandedOptions.DirectTurns).
+	directTurns bool
 	// leadIn bends the start of open passes onto the previous front
 	// (measured worse on the demo job, so off by default).
 	leadIn bool
@@ -70,7 +73,7 @@ type spiralParams struct {
 // steps between 0.3 and 1.6 times the straight-cut width, and the drift of
 // the turns.
 func newSpiralParams(st bandedSettings) spiralParams {
-	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly, leanIslands: st.leanIslands}
+	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly, directTurns: st.directTurns, leanIslands: st.leanIslands}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
 	p.turnTau, p.turnFrac = turnProfile(p.r, straight, math.Max(p.phiMax, p.phi), 0.5*p.h)
@@ -208,7 +211,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 				bd = pts[0].Dist(pos)
 			}
 			var turn, along, model []geom.Point
-			if !f.closed && !(lastClosed && bd <= 2*p.maxStep+2*p.h) {
+			if !f.closed && !p.directTurns && !(lastClosed && bd <= 2*p.maxStep+2*p.h) {
 				turn, along = spiralTurn(g, recent, older, pts, p)
 			}
 			switch {

@@ -115,6 +115,9 @@ type Comparison struct {
 	// LeanIslands is set when the banded plan leaned its pass ends onto
 	// islands too (CompareOptions.Banded.LeanIslands).
 	LeanIslands bool `json:"lean_islands"`
+	// DirectTurns is set when the banded plan turned straight onto the
+	// next pass at walls (CompareOptions.Banded.DirectTurns).
+	DirectTurns bool `json:"direct_turns"`
 	// Layered and Banded are the plans compared.
 	Layered *Plan `json:"-"`
 	Banded  *Plan `json:"-"`
@@ -377,7 +380,7 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 // newComparison resolves the machine, the band and the work material of a
 // comparison.
 func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {
-	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, LeanIslands: opts.Banded.LeanIslands}
+	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, LeanIslands: opts.Banded.LeanIslands, DirectTurns: opts.Banded.DirectTurns}
 	if c.Band[1] <= 0 {
 		c.Band = [2]float64{0.05, 0.10} // the planners' default band
 	}

@@ -95,7 +95,10 @@ func (r *reportWriter) page() {
 	}
 	lean := ""
 	if c.LeanIslands {
-		lean = " Banded pass ends lean onto islands too."
+		lean += " Banded pass ends lean onto islands too."
+	}
+	if c.DirectTurns {
+		lean += " Banded turns straight onto the next pass at walls."
 	}
 	r.p("Band %s–%s of D.%s Spindle power for %s. Times from speed model %s; the recommendation follows R1.</p>\n",
 		trim(c.Band[0]), trim(c.Band[1]), lean, esc(c.Material), esc(strings.Join(c.Models, " and ")))

@@ -131,6 +131,8 @@ func badCatalogue() []badCase {
 		{name: "plan/missing -o", args: []string{"plan", "@job"}, want: []string{"-o"}},
 		{name: "plan/lean-islands with layered", args: []string{"plan", "@job", "--lean-islands", "-o", "@out"},
 			want: []string{"--lean-islands", "banded"}, out: outFile},
+		{name: "plan/direct-turns with layered", args: []string{"plan", "@job", "--direct-turns", "-o", "@out"},
+			want: []string{"--direct-turns", "banded"}, out: outFile},
 		{name: "plan/two jobs", args: []string{"plan", "@job", "@job", "-o", "@out"}, want: []string{"one job file"}, out: outFile},
 		{name: "plan/missing job file", args: []string{"plan", "@missing", "-o", "@out"}, want: []string{"no such file"}, out: outFile},
 		// A failing run must leave no output behind, also when only the

@@ -16,10 +16,11 @@ import (
 	"github.com/chipband/chipband/timing"
 )
 
-const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--lean-islands] [--json] [--html R.html] [--quiet]"
+const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--lean-islands] [--direct-turns] [--json] [--html R.html] [--quiet]"
 
 // runCompare implements `chipband compare JOB [--machine M] [--material
-// NAME] [--lean-islands] [--json] [--html R.html] [--quiet]`: it plans both
+// NAME] [--lean-islands] [--direct-turns] [--json] [--html R.html]
+// [--quiet]`: it plans both
 // strategies for every feature, times and simulates them and recommends one
 // per feature.
 func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) error {
@@ -27,6 +28,7 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 	machinePath := fl.String("machine", "", "machine file (JSON); default: the job's machine, else the built-in bench mill")
 	material := fl.String("material", pathplan.DefaultMaterial, "work material for spindle power: "+materialNames())
 	leanIslands := fl.Bool("lean-islands", false, "plan banded with its pass ends leaned onto islands too, as plan --lean-islands does")
+	directTurns := fl.Bool("direct-turns", false, "plan banded with direct turns at walls, as plan --direct-turns does")
 	asJSON := fl.Bool("json", false, "write the comparison as JSON on stdout")
 	htmlPath := fl.String("html", "", "also write a self-contained HTML report here")
 	quiet := fl.Bool("quiet", false, "no progress on stderr")
@@ -43,6 +45,7 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 	}
 	opts := pathplan.CompareOptions{Material: *material, Detail: *htmlPath != ""}
 	opts.Banded.LeanIslands = *leanIslands
+	opts.Banded.DirectTurns = *directTurns
 	if *machinePath != "" {
 		m, err := loadMachine(*machinePath)
 		if err != nil {
@@ -163,7 +166,10 @@ func writeComparison(w io.Writer, c *pathplan.Comparison) error {
 		name, len(c.Features), mname, src, c.Machine.Accel.X, c.Machine.Accel.Y, c.Machine.Accel.Z, strings.Join(c.Models, " and "))
 	lean := ""
 	if c.LeanIslands {
-		lean = "; banded pass ends lean onto islands"
+		lean += "; banded pass ends lean onto islands"
+	}
+	if c.DirectTurns {
+		lean += "; banded turns straight onto the next pass at walls"
 	}
 	fmt.Fprintf(&b, "spindle power for %s (kc1.1 %g N/mm², mc %g); band %g–%g of D%s; times under R1\n\n",
 		c.Material, c.Kienzle.Kc11, c.Kienzle.Mc, c.Band[0], c.Band[1], lean)

@@ -118,7 +118,8 @@ func TestClock(t *testing.T) {
 
 // compare --lean-islands plans banded as plan --lean-islands does: the JSON
 // says so, the header names it, and the banded plan of a pocket around an
-// island changes (its pass ends at the island lean).
+// island changes (its pass ends at the island lean). --direct-turns is
+// passed on the same way.
 func TestCompareLeanIslands(t *testing.T) {
 	p := filepath.Join(t.TempDir(), "island.json")
 	err := os.WriteFile(p, []byte(`{
@@ -135,6 +136,7 @@ func TestCompareLeanIslands(t *testing.T) {
 	}
 	type result struct {
 		LeanIslands bool `json:"lean_islands"`
+		DirectTurns bool `json:"direct_turns"`
 		Features    []struct {
 			Banded struct {
 				CycleS float64 `json:"cycle_s"`
@@ -159,6 +161,9 @@ func TestCompareLeanIslands(t *testing.T) {
 	}
 	if a, b := off.Features[0].Banded.CycleS, on.Features[0].Banded.CycleS; a == b {
 		t.Errorf("banded cycle %.1f s with and without --lean-islands: the flag did not reach the planner", a)
+	}
+	if r := run("--direct-turns"); !r.DirectTurns || off.DirectTurns || on.DirectTurns {
+		t.Errorf("direct_turns %v with --direct-turns, %v and %v without", r.DirectTurns, off.DirectTurns, on.DirectTurns)
 	}
 	code, out, stderr := runCLI(t, "compare", p, "--quiet", "--lean-islands")
 	if code != 0 || !strings.Contains(out, "banded pass ends lean onto islands") {

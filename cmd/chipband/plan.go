@@ -18,15 +18,16 @@ import (
 )
 
 // runPlan implements `chipband plan JOB --strategy layered|banded -o OUT.nc
-// [--report R.json] [--svg OUT.svg] [--lean-islands]`: it plans one
+// [--report R.json] [--svg OUT.svg] [--lean-islands] [--direct-turns]`: it plans one
 // roughing strategy for a job and writes the G-code.
 func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fl := newFlags("plan", "plan JOB --strategy layered|banded -o OUT.nc [--report R.json] [--svg OUT.svg] [--lean-islands]", stderr)
+	fl := newFlags("plan", "plan JOB --strategy layered|banded -o OUT.nc [--report R.json] [--svg OUT.svg] [--lean-islands] [--direct-turns]", stderr)
 	strategy := fl.String("strategy", "layered", "roughing strategy: layered or banded")
 	out := fl.String("o", "", "G-code file to write (required)")
 	reportPath := fl.String("report", "", "also write a JSON report of the plan here")
 	svgPath := fl.String("svg", "", "also write an SVG top view of the path here")
 	leanIslands := fl.Bool("lean-islands", false, "banded: lean pass ends onto islands too, holding the band there at the cost of time")
+	directTurns := fl.Bool("direct-turns", false, "banded: step straight onto the next pass at walls, saving time where passes are short at the cost of engagement spikes at pass ends")
 	pos, err := parseFlags(fl, args)
 	if err != nil {
 		return err
@@ -34,8 +35,13 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if len(pos) != 1 {
 		return badInputf("want exactly one job file, got %d", len(pos))
 	}
-	if *leanIslands && *strategy != "banded" {
-		return badInputf("--lean-islands applies to --strategy banded only")
+	for _, f := range []struct {
+		name string
+		set  bool
+	}{{"--lean-islands", *leanIslands}, {"--direct-turns", *directTurns}} {
+		if f.set && *strategy != "banded" {
+			return badInputf("%s applies to --strategy banded only", f.name)
+		}
 	}
 	if *out == "" {
 		return badInputf("-o OUT.nc is required")
@@ -59,7 +65,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	case "layered":
 		plan, err = pathplan.PlanLayered(ctx, job, pathplan.Options{})
 	case "banded":
-		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{LeanIslands: *leanIslands})
+		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{LeanIslands: *leanIslands, DirectTurns: *directTurns})
 	default:
 		return badInputf("unknown strategy %q (want layered or banded)", *strategy)
 	}
@@ -105,6 +111,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 				return fmt.Errorf("banded report: %w", err)
 			}
 			pr.Banded, pr.BandedMachine, pr.BandedMachineSource = br, m.Name, src
+			pr.BandedOptions = &bandedOptionsJSON{LeanIslands: *leanIslands, DirectTurns: *directTurns}
 		}
 		data, err := json.MarshalIndent(pr, "", "  ")
 		if err != nil {
@@ -135,6 +142,14 @@ type planReportJSON struct {
 	Banded              []pathplan.BandedFeatureReport `json:"banded,omitempty"`
 	BandedMachine       string                         `json:"banded_machine,omitempty"`
 	BandedMachineSource string                         `json:"banded_machine_source,omitempty"`
+	// BandedOptions are the banded flags the plan was made with.
+	BandedOptions *bandedOptionsJSON `json:"banded_options,omitempty"`
+}
+
+// bandedOptionsJSON records plan's banded flags in the report.
+type bandedOptionsJSON struct {
+	LeanIslands bool `json:"lean_islands"`
+	DirectTurns bool `json:"direct_turns"`
 }
 
 func planReport(p *pathplan.Plan, rep *timing.Report) planReportJSON {

@@ -12,7 +12,7 @@ import (
 // A banded --report lists per feature the engagement summary, the R1
 // cycle time and the ratio to the removal bound (issue 6), also for a job
 // that names no machine: it is then timed on compare's default machine,
-// and the report says so.
+// and the report says so, with the banded flags it was planned with.
 func TestPlanBandedReportWithoutMachine(t *testing.T) {
 	job := writeTemp(t, "job.json", `{
   "name": "small pocket",
@@ -25,7 +25,7 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 }`)
 	dir := t.TempDir()
 	rep := filepath.Join(dir, "r.json")
-	code, _, stderr := runCLI(t, "plan", job, "--strategy", "banded", "-o", filepath.Join(dir, "p.nc"), "--report", rep)
+	code, _, stderr := runCLI(t, "plan", job, "--strategy", "banded", "-o", filepath.Join(dir, "p.nc"), "--report", rep, "--direct-turns")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -46,6 +46,10 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 		} `json:"banded"`
 		Machine string `json:"banded_machine"`
 		Source  string `json:"banded_machine_source"`
+		Options struct {
+			LeanIslands *bool `json:"lean_islands"`
+			DirectTurns *bool `json:"direct_turns"`
+		} `json:"banded_options"`
 	}
 	if err := json.Unmarshal(data, &r); err != nil {
 		t.Fatalf("report is not JSON: %v", err)
@@ -59,6 +63,9 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 	}
 	if !(b.CycleS > 0 && b.BoundS > 0) || b.Ratio != b.CycleS/b.BoundS {
 		t.Errorf("cycle %.3f s, bound %.3f s, ratio %.3f: want positive times and their ratio", b.CycleS, b.BoundS, b.Ratio)
+	}
+	if o := r.Options; o.LeanIslands == nil || *o.LeanIslands || o.DirectTurns == nil || !*o.DirectTurns {
+		t.Errorf("banded_options %+v, want lean_islands false and direct_turns true", o)
 	}
 	if r.Source != "default" || r.Machine != pathplan.DemoMachine().Name {
 		t.Errorf("timed on %q (source %q), want %q (default)", r.Machine, r.Source, pathplan.DemoMachine().Name)
