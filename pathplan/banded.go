@@ -187,6 +187,12 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 	}
 	fp := bandedParams(job, st, opts)
 	plan := &Plan{Job: job, Strategy: "banded"}
+	if opts.LeanIslands {
+		plan.Options = append(plan.Options, "islands leaned")
+	}
+	if opts.DirectTurns {
+		plan.Options = append(plan.Options, "direct turns")
+	}
 	b := &builder{}
 	b.path.Start = geom.Point3{X: 0, Y: 0, Z: fp.clear}
 	b.pos = b.path.Start

@@ -171,7 +171,7 @@ func TestBandedLeanIslands(t *testing.T) {
 // the pass just cut and drifting onto the next: on a narrow open slot
 // (invented: 14 mm wide, 12 mm deep, D6) on the demo router's 400 mm/s²,
 // R1 (design.md) then times the plan shorter, and the path stays as clear
-// of the walls and the stock as before.
+// of the walls and the stock as before. The G-code header says which.
 func TestBandedDirectTurns(t *testing.T) {
 	if testing.Short() {
 		t.Skip("plans and simulates a slot twice")
@@ -208,6 +208,14 @@ func TestBandedDirectTurns(t *testing.T) {
 		}
 		if n := len(s.RapidViolations); n > 0 {
 			t.Errorf("direct %v: %d rapids through material", direct, n)
+		}
+		// The G-code header names the option, and only when it is set.
+		var prog strings.Builder
+		if err := WriteGCode(&prog, plan); err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.Contains(prog.String(), "(options: direct turns)"); got != direct {
+			t.Errorf("direct %v: header names the option: %v", direct, got)
 		}
 	}
 	if cycle[true] >= cycle[false] {

@@ -86,6 +86,9 @@ func WriteGCode(w io.Writer, p *Plan) error {
 			num(j.Cut.Layered.Stepover), num(j.Cut.Layered.Stepdown))
 	}
 	fmt.Fprintf(bw, ", allowance %s mm)\n", num(j.Cut.Allowance))
+	if len(p.Options) > 0 {
+		fmt.Fprintf(bw, "(options: %s)\n", comment(strings.Join(p.Options, ", ")))
+	}
 	fmt.Fprintf(bw, "(cut: %s rpm, chip load %s mm, feed %s mm/min)\n",
 		num(j.Cut.SpindleRPM), num(j.Cut.ChipLoad), num(j.Feed()))
 	fmt.Fprintf(bw, "(Z0 at the stock top %s, clearance Z%s)\n", num(j.Stock.Top), num(j.Stock.Top+j.Clearance))

@@ -36,6 +36,10 @@ type Plan struct {
 	// Warnings are problems that did not stop planning, such as parts of a
 	// feature too narrow for the tool.
 	Warnings []string
+	// Options names the options the plan was made with that change the
+	// path, for the G-code header: "islands leaned" and "direct turns"
+	// (BandedOptions); empty for the defaults.
+	Options []string
 }
 
 // FeatureSummary describes the plan of one feature.
