@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/chipband/chipband/geom"
+	"github.com/chipband/chipband/timing"
 )
 
 // TestSpiralLeanEnd checks the lean of open front ends onto walls: a
@@ -136,7 +137,6 @@ func TestBandedLeanIslands(t *testing.T) {
 	if testing.Short() {
 		t.Skip("plans and simulates the boss pocket twice")
 	}
-	ctx := context.Background()
 	demo := DemoJob()
 	job := *demo
 	job.Features = nil
@@ -147,14 +147,7 @@ func TestBandedLeanIslands(t *testing.T) {
 	}
 	above := map[bool]float64{}
 	for _, lean := range []bool{false, true} {
-		plan, err := PlanBanded(ctx, &job, BandedOptions{LeanIslands: lean})
-		if err != nil {
-			t.Fatal(err)
-		}
-		rep, err := BandedReport(ctx, plan, *demo.Machine)
-		if err != nil {
-			t.Fatal(err)
-		}
+		_, rep := planBandedReport(t, &job, BandedOptions{LeanIslands: lean}, *demo.Machine)
 		s := rep[0].Engagement
 		above[lean] = s.AboveBandFraction
 		t.Logf("lean %v: in-band %.3f above %.4f cycle %.1f s ratio %.2f", lean, s.InBandFraction, s.AboveBandFraction, rep[0].CycleS, rep[0].Ratio)
@@ -176,7 +169,6 @@ func TestBandedDirectTurns(t *testing.T) {
 	if testing.Short() {
 		t.Skip("plans and simulates a slot twice")
 	}
-	ctx := context.Background()
 	demo := DemoJob()
 	job, err := ReadJob(strings.NewReader(`{"name":"through slot","stock":{"outline":"POLYGON ((0 0, 40 0, 40 30, 0 30, 0 0))","top":0},
 "features":[{"name":"slot","region":"POLYGON ((-10 8, 50 8, 50 22, -10 22, -10 8))","depth":12}],
@@ -192,14 +184,7 @@ func TestBandedDirectTurns(t *testing.T) {
 	}
 	cycle := map[bool]float64{}
 	for _, direct := range []bool{false, true} {
-		plan, err := PlanBanded(ctx, job, BandedOptions{DirectTurns: direct})
-		if err != nil {
-			t.Fatal(err)
-		}
-		rep, err := BandedReport(ctx, plan, *demo.Machine)
-		if err != nil {
-			t.Fatal(err)
-		}
+		plan, rep := planBandedReport(t, job, BandedOptions{DirectTurns: direct}, *demo.Machine)
 		s := rep[0].Engagement
 		cycle[direct] = rep[0].CycleS
 		t.Logf("direct %v: in-band %.3f above %.4f 1 mm MA %.3f air %.3f cycle %.1f s", direct, s.InBandFraction, s.AboveBandFraction, s.MaxEng, s.AirFraction, rep[0].CycleS)
@@ -221,4 +206,19 @@ func TestBandedDirectTurns(t *testing.T) {
 	if cycle[true] >= cycle[false] {
 		t.Errorf("direct turns %.1f s, drifting turns %.1f s: want direct turns faster", cycle[true], cycle[false])
 	}
+}
+
+// planBandedReport plans job with the banded strategy and opts and
+// returns the plan and its BandedReport on machine m.
+func planBandedReport(t *testing.T, job *Job, opts BandedOptions, m timing.Machine) (*Plan, []BandedFeatureReport) {
+	t.Helper()
+	plan, err := PlanBanded(context.Background(), job, opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := BandedReport(context.Background(), plan, m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return plan, rep
 }
