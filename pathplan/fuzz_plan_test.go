@@ -27,7 +27,8 @@ func FuzzPlanLayered(f *testing.F) {
 	f.Fuzz(func(t *testing.T, data []byte) { fuzzPlan(t, "layered", data) })
 }
 
-// FuzzPlanBanded is FuzzPlanLayered for the banded strategy.
+// FuzzPlanBanded is FuzzPlanLayered for the banded strategy; the last
+// byte's two low bits also set BandedOptions.LeanIslands and DirectTurns.
 func FuzzPlanBanded(f *testing.F) {
 	fuzzPlanSeeds(f)
 	f.Fuzz(func(t *testing.T, data []byte) { fuzzPlan(t, "banded", data) })
@@ -46,7 +47,13 @@ func fuzzPlan(t *testing.T, strat string, data []byte) {
 	// A small job must not take long; a minute means a hang.
 	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
 	defer cancel()
-	p, err := planWith(ctx, strat, j)
+	var p *Plan
+	var err error
+	if n := len(data); strat == "banded" && n > 0 {
+		p, err = PlanBanded(ctx, j, BandedOptions{LeanIslands: data[n-1]&1 != 0, DirectTurns: data[n-1]&2 != 0})
+	} else {
+		p, err = planWith(ctx, strat, j)
+	}
 	if err != nil {
 		if errors.Is(err, context.DeadlineExceeded) {
 			t.Fatalf("planning a %d-feature job took more than a minute", len(j.Features))
