@@ -2,6 +2,7 @@ package pathplan
 
 import (
 	"math"
+	"sort"
 
 	"github.com/chipband/chipband/geom"
 )
@@ -16,8 +17,9 @@ const bandedRampMax = 4.0
 
 // bandedRampStretch returns the straight stretch a ramp entry into domain
 // c runs on: the longest chord through c's point p, among directions every
-// 5° and those of c's edges, whose points all lie at least margin inside c,
-// cut to bandedRampMax diameters about p. False when no chord reaches bandedRampMin radii.
+// 5° and those of c's eight longest edges, whose points all lie at least
+// margin inside c, cut to bandedRampMax diameters about p. False when no
+// chord reaches bandedRampMin radii.
 func bandedRampStretch(c geom.Shape, p geom.Point, r, margin float64) (a, b geom.Point, ok bool) {
 	if !c.Contains(p) || c.DistanceToBoundary(p) < margin {
 		return a, b, false
@@ -40,19 +42,24 @@ func bandedRampStretch(c geom.Shape, p geom.Point, r, margin float64) (a, b geom
 		}
 		return math.Min(t, half)
 	}
-	// Directions every 5°, and those of the outline's edges (a slot's
-	// walls run along its length at any angle).
+	// Directions every 5°, and those of the outline's eight longest edges
+	// (a slot's walls run along its length at any angle).
 	var dirs []geom.Point
 	for k := 0; k < 36; k++ {
 		th := math.Pi * float64(k) / 36
 		dirs = append(dirs, geom.Point{X: math.Cos(th), Y: math.Sin(th)})
 	}
+	var edges []geom.Point
 	for _, ring := range c.Rings() {
 		for i := range ring {
 			if e := ring[(i+1)%len(ring)].Sub(ring[i]); e.Len() >= bandedRampMin*r {
-				dirs = append(dirs, e.Unit())
+				edges = append(edges, e)
 			}
 		}
+	}
+	sort.SliceStable(edges, func(i, j int) bool { return edges[i].Len() > edges[j].Len() })
+	for _, e := range edges[:min(len(edges), 8)] {
+		dirs = append(dirs, e.Unit())
 	}
 	best := 0.0
 	for _, u := range dirs {
