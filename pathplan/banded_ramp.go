@@ -38,7 +38,10 @@ func bandedRampStretch(c geom.Shape, p geom.Point, r, margin float64) (a, b geom
 			if d <= 1e-4 {
 				break
 			}
-			t += math.Max(d, 1e-3)
+			// At least a quarter of the margin a step, so a ray that
+			// runs close along the outline ends soon; it then stands at
+			// least 3/4 of the margin inside c.
+			t += math.Max(d, margin/4)
 		}
 		return math.Min(t, half)
 	}
