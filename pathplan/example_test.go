@@ -79,3 +79,41 @@ func ExampleMachineFor() {
 	// demo router job
 	// bench mill default
 }
+
+// The banded options that trade band for time are off by default; a
+// program planned with one says so in its G-code header.
+func ExampleBandedOptions() {
+	job, err := pathplan.ReadJob(strings.NewReader(`{
+	  "name": "slot",
+	  "stock": {"outline": "POLYGON ((0 0, 40 0, 40 30, 0 30, 0 0))", "top": 0},
+	  "features": [{"name": "slot", "region": "POLYGON ((-5 8, 45 8, 45 22, -5 22, -5 8))", "depth": 6}],
+	  "tool": {"diameter": 6, "flute_length": 15, "flutes": 3},
+	  "cut": {"spindle_rpm": 16000, "chip_load": 0.03, "layered": {"stepover": 0.5, "stepdown": 2}},
+	  "clearance": 5}`))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, opts := range []pathplan.BandedOptions{{}, {DirectTurns: true}} {
+		plan, err := pathplan.PlanBanded(context.Background(), job, opts)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		var prog strings.Builder
+		if err := pathplan.WriteGCode(&prog, plan); err != nil {
+			fmt.Println(err)
+			return
+		}
+		fmt.Printf("direct turns %v: %q\n", opts.DirectTurns, plan.Options)
+		for _, line := range strings.Split(prog.String(), "\n") {
+			if strings.HasPrefix(line, "(options:") {
+				fmt.Println(line)
+			}
+		}
+	}
+	// Output:
+	// direct turns false: []
+	// direct turns true: ["direct turns"]
+	// (options: direct turns)
+}
