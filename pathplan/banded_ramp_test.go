@@ -197,7 +197,9 @@ func TestBandedRampRandomSlots(t *testing.T) {
 			if mv.Kind == geom.Entry && dz > math.Sqrt(math.Max(0, l*l-dz*dz))*tan+1e-6 {
 				t.Errorf("%s: entry to %v steeper than 2°", name, mv.To)
 			}
-			ramps += b2i(mv.Kind == geom.Entry && !mv.Arc)
+			if mv.Kind == geom.Entry && !mv.Arc {
+				ramps++
+			}
 			from = mv.To
 		}
 		if ramps > 0 {
@@ -224,9 +226,3 @@ func TestBandedRampRandomSlots(t *testing.T) {
 	t.Logf("%d of %d slots ramped in", planned, n)
 }
 
-func b2i(b bool) int {
-	if b {
-		return 1
-	}
-	return 0
-}

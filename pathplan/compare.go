@@ -377,6 +377,20 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 	return c, nil
 }
 
+// BandedVariants describes, in words for a report header, the banded
+// options the comparison was planned with that change the path; empty for
+// the defaults.
+func (c *Comparison) BandedVariants() []string {
+	var out []string
+	if c.LeanIslands {
+		out = append(out, "pass ends lean onto islands")
+	}
+	if c.DirectTurns {
+		out = append(out, "turns straight onto the next pass at walls")
+	}
+	return out
+}
+
 // newComparison resolves the machine, the band and the work material of a
 // comparison.
 func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {

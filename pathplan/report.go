@@ -93,15 +93,12 @@ func (r *reportWriter) page() {
 		r.p("Tool: flat end mill D%s mm, %d flutes, flute length %s mm; %s rpm, chip load %s mm. ",
 			trim(j.Tool.Diameter), j.Tool.Flutes, trim(j.Tool.FluteLength), trim(j.Cut.SpindleRPM), trim(j.Cut.ChipLoad))
 	}
-	lean := ""
-	if c.LeanIslands {
-		lean += " Banded pass ends lean onto islands too."
-	}
-	if c.DirectTurns {
-		lean += " Banded turns straight onto the next pass at walls."
+	variants := ""
+	if v := c.BandedVariants(); len(v) > 0 {
+		variants = " Banded: " + esc(strings.Join(v, "; ")) + "."
 	}
 	r.p("Band %s–%s of D.%s Spindle power for %s. Times from speed model %s; the recommendation follows R1.</p>\n",
-		trim(c.Band[0]), trim(c.Band[1]), lean, esc(c.Material), esc(strings.Join(c.Models, " and ")))
+		trim(c.Band[0]), trim(c.Band[1]), variants, esc(c.Material), esc(strings.Join(c.Models, " and ")))
 	r.p("<div class=\"caution\" id=\"caution\"><b>Caution.</b> %s</div>\n", esc(SafetyCaution))
 
 	r.table()

@@ -20,9 +20,8 @@ const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--lean-isl
 
 // runCompare implements `chipband compare JOB [--machine M] [--material
 // NAME] [--lean-islands] [--direct-turns] [--json] [--html R.html]
-// [--quiet]`: it plans both
-// strategies for every feature, times and simulates them and recommends one
-// per feature.
+// [--quiet]`: it plans both strategies for every feature, times and
+// simulates them and recommends one per feature.
 func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fl := newFlags("compare", compareSynopsis, stderr)
 	machinePath := fl.String("machine", "", "machine file (JSON); default: the job's machine, else the built-in bench mill")
@@ -164,15 +163,12 @@ func writeComparison(w io.Writer, c *pathplan.Comparison) error {
 	}
 	fmt.Fprintf(&b, "%s: %d features on %s (%s), accel %g/%g/%g mm/s², models %s\n",
 		name, len(c.Features), mname, src, c.Machine.Accel.X, c.Machine.Accel.Y, c.Machine.Accel.Z, strings.Join(c.Models, " and "))
-	lean := ""
-	if c.LeanIslands {
-		lean += "; banded pass ends lean onto islands"
-	}
-	if c.DirectTurns {
-		lean += "; banded turns straight onto the next pass at walls"
+	variants := ""
+	if v := c.BandedVariants(); len(v) > 0 {
+		variants = "; banded " + strings.Join(v, ", ")
 	}
 	fmt.Fprintf(&b, "spindle power for %s (kc1.1 %g N/mm², mc %g); band %g–%g of D%s; times under R1\n\n",
-		c.Material, c.Kienzle.Kc11, c.Kienzle.Mc, c.Band[0], c.Band[1], lean)
+		c.Material, c.Kienzle.Kc11, c.Kienzle.Mc, c.Band[0], c.Band[1], variants)
 	jerk := len(c.Models) > 1
 	hdr := []string{"feature", "strategy", "levels", "cycle"}
 	if jerk {
