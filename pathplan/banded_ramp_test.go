@@ -225,4 +225,3 @@ func TestBandedRampRandomSlots(t *testing.T) {
 	}
 	t.Logf("%d of %d slots ramped in", planned, n)
 }
-
