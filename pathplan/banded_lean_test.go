@@ -222,3 +222,46 @@ func planBandedReport(t *testing.T, job *Job, opts BandedOptions, m timing.Machi
 	}
 	return plan, rep
 }
+
+// TestSpiralExtendAtPart checks where open front ends are extended to a
+// wall. In a domain with a square hole (the part of an open feature), a
+// front that heads square at the hole reaches it; one that runs beside the
+// hole at 10° keeps its end (it would run along the part into the strip
+// left there); at an outer wall, and at an island of a pocket, the shallow
+// end is still extended. Angles and distances are elementary geometry.
+func TestSpiralExtendAtPart(t *testing.T) {
+	p := spiralParams{r: 3, h: 0.2}
+	dom := geom.Shape{{Outer: geom.RectRing(0, 0, 60, 40), Holes: []geom.Ring{geom.RectRing(30, 10, 40, 30).Reversed()}}}
+	// along returns a front ending at end, arriving in direction deg
+	// (degrees from +x).
+	along := func(end geom.Point, deg float64) []geom.Point {
+		d := geom.Pt(math.Cos(deg*math.Pi/180), math.Sin(deg*math.Pi/180))
+		return polyResample([]geom.Point{end.Sub(d.Scale(6)), end}, p.h, false)
+	}
+	reach := func(pts []geom.Point, c geom.Shape) float64 {
+		return c.DistanceToBoundary(pts[len(pts)-1])
+	}
+	part := p
+	part.leanHoles = true
+	// Square to the hole's left side x = 30, ending 0.3 mm short of it.
+	sq := along(geom.Pt(29.7, 20), 0)
+	// The extension steps h/8 at a time.
+	if d := reach(spiralExtend(sq, dom, part, false), dom); d > p.h/8+1e-9 {
+		t.Errorf("square end stops %.3f mm short of the part, want within h/8", d)
+	}
+	// At 10° to the hole's bottom side y = 10, 0.3 mm below it: the
+	// extension would close on the wall by sin 10° of its length.
+	sh := along(geom.Pt(33, 9.7), 10)
+	if out := spiralExtend(sh, dom, part, false); len(out) != len(sh) {
+		t.Errorf("shallow end at the part extended by %.2f mm", out[len(out)-1].Dist(sh[len(sh)-1]))
+	}
+	// The same end at an island of a pocket is extended.
+	if out := spiralExtend(sh, dom, p, false); len(out) == len(sh) {
+		t.Error("shallow end at an island not extended")
+	}
+	// At the outer wall y = 0, 0.3 mm above it at 10°, it is extended.
+	ow := along(geom.Pt(10, 0.3), -10)
+	if out := spiralExtend(ow, dom, part, false); len(out) == len(ow) {
+		t.Error("shallow end at the outer wall not extended")
+	}
+}

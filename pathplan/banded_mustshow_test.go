@@ -32,7 +32,6 @@ var bandedMustShowShort = map[string]bool{
 	"demo/comb pocket/max":                         true,
 	"open_slot.json/slot/cycle":                    true,
 	"open_slot.json/slot/in-band":                  true,
-	"outside_profile.json/profile/max":             true,
 	"pocket_islands.json/island pocket/above":      true,
 	"pocket_islands.json/island pocket/max":        true,
 	"router_sign.json/recess/above":                true,
