@@ -650,8 +650,10 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	var pos geom.Point
 	inAir := false
 	p.leanHoles = comp.open
+	var grown geom.Shape // the stock grown by the tool radius: outside it the tool is in the air
 	if comp.open {
-		grown, err := offset.Offset(job.Stock.Outline, st.r+0.01, DefaultTolerance)
+		var err error
+		grown, err = offset.Offset(job.Stock.Outline, st.r+0.01, DefaultTolerance)
 		if err != nil {
 			return err
 		}
@@ -741,6 +743,26 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	pieces, _, err := spiralGrow(ctx, g, fc, start, pos, p)
 	if err != nil {
 		return err
+	}
+	if comp.open {
+		// Where the tool stands in the air beside the stock, at the start
+		// of the level or after a lift, the links to the next pass take
+		// it into the stock's edge, often head-on (the through slot of
+		// deep_open.json bites 0.37 mm into the end face at ae/D 0.23):
+		// that is an entry of the open level.
+		air := inAir
+		for i := range pieces {
+			switch pc := &pieces[i]; pc.kind {
+			case pieceLift:
+				air = !grown.Contains(pc.pts[len(pc.pts)-1])
+			case pieceLink:
+				if air {
+					pc.kind = pieceApproach
+				}
+			default:
+				air = false
+			}
+		}
 	}
 	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
@@ -856,7 +878,7 @@ func bandedEmit(b *builder, pieces []bandedPiece, c geom.Shape, z, levelTop, cle
 			kinds = append(kinds, k)
 		}
 	}
-	for _, pc := range pieces {
+	for i, pc := range pieces {
 		switch pc.kind {
 		case pieceLift:
 			flush()
@@ -888,6 +910,16 @@ func bandedEmit(b *builder, pieces []bandedPiece, c geom.Shape, z, levelTop, cle
 				b.add(m)
 			}
 			sum.Rings++
+		case pieceApproach:
+			flush()
+			if i == 0 || pieces[i-1].kind != pieceApproach {
+				sum.Entries++
+			}
+			for _, q := range pc.pts {
+				if b.pos.XY().Dist(q) > 1e-6 {
+					b.feed(geom.Entry, p3(q, z), st.entry)
+				}
+			}
 		case pieceLink:
 			if len(pts) == 0 {
 				pts = append(pts, b.pos.XY())

@@ -19,11 +19,9 @@ import (
 // issue's and are never relaxed here.
 var bandedMustShowShort = map[string]bool{
 	"closed_pocket.json/pocket/max":                true,
-	"deep_open.json/through slot/above":            true,
 	"deep_open.json/through slot/beats-layered":    true,
 	"deep_open.json/through slot/cycle":            true,
 	"deep_open.json/through slot/in-band":          true,
-	"deep_open.json/through slot/max":              true,
 	"demo/boss pocket/above":                       true,
 	"demo/boss pocket/max":                         true,
 	"demo/comb pocket/above":                       true,

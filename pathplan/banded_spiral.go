@@ -16,6 +16,10 @@ const (
 	pieceBoundary                        // the last pass along the domain boundary
 	pieceLift                            // leave the level and come back at the piece's end
 	pieceTrochoid                        // trochoidal loops in a channel
+	// pieceApproach is the way from the descent in the air to the first
+	// pass of an open level: the entry into the stock, cut at the entry
+	// feed.
+	pieceApproach
 )
 
 // bandedPiece is one polyline of a level's path, in cutting order.

@@ -61,8 +61,9 @@ type FeatureSummary struct {
 	Rings int `json:"rings"`
 	// Cleanups counts the clean-up passes cut over cusps.
 	Cleanups int `json:"cleanups"`
-	// Entries counts ramp and helix entries; Lifts counts lifts to the
-	// clearance height.
+	// Entries counts ramp and helix entries and, in open features of a
+	// banded plan, the approaches from the air into the stock; Lifts
+	// counts lifts to the clearance height.
 	Entries int `json:"entries"`
 	Lifts   int `json:"lifts"`
 	// Length is the path length of the feature's operation, mm.

@@ -1,0 +1,70 @@
+package pathplan
+
+import (
+	"context"
+	"testing"
+
+	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
+)
+
+// TestBandedOpenApproach checks how the open features of deep_open.json
+// are entered from the air: after each rapid, every move up to the first
+// pass is a descent that cuts nothing or a move marked as an entry at the
+// entry feed. Links run through cut material only (issue 6); the move that
+// takes the tool from the air into the edge of the stock is the open
+// feature's entry, and engage, which counts entries apart, must read no
+// link there that cuts.
+func TestBandedOpenApproach(t *testing.T) {
+	ctx := context.Background()
+	job, err := LoadJob("../testdata/jobs/deep_open.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	plan, err := PlanBanded(ctx, job, BandedOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := bandedSetup(job, BandedOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	entries := 0
+	err = bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
+		fs := plan.Features[fi]
+		if !fs.Open {
+			return nil
+		}
+		moves := plan.Path.Moves[fs.First:fs.End]
+		approach := make([]bool, len(moves)) // between a rapid and the next pass
+		on := false
+		for i, m := range moves {
+			switch m.Kind {
+			case geom.Rapid:
+				on = true
+			case geom.Feed, geom.Finish:
+				on = false
+			}
+			approach[i] = on && m.Kind != geom.Rapid
+			if approach[i] && m.Kind == geom.Entry {
+				entries++
+				if m.Feed != st.entry {
+					t.Errorf("%s: entry move %d at %.0f mm/min, want the entry feed %.0f", fs.Name, i, m.Feed, st.entry)
+				}
+			}
+		}
+		for _, s := range res.Profile {
+			if approach[s.Move] && s.Kind == geom.Link && s.Class == engage.Cut {
+				t.Errorf("%s: link move %d from the air cuts at (%.2f, %.2f), ae/D %.3f", fs.Name, s.Move, s.X, s.Y, s.AE/job.Tool.Diameter)
+				break
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if entries == 0 {
+		t.Error("no entry from the air into the stock")
+	}
+}
