@@ -65,7 +65,31 @@ func TestRetracedPassIsAir(t *testing.T) {
 				if cut > 0 {
 					t.Errorf("return reads %.2f mm as cut, ae up to %.4f mm", cut, worst)
 				}
+				if l := res.Summary.LinkCutLength; l != 0 {
+					t.Errorf("summary: links cut over %.2f mm, want 0", l)
+				}
 			})
 		}
+	}
+}
+
+// TestLinkThroughStock: a link run straight through uncut stock is counted
+// as a link that cuts, over the length on which the tool overlaps the
+// stock (from a tool radius before the stock's edge to the end, elementary
+// geometry), in full slotting (ae = D).
+func TestLinkThroughStock(t *testing.T) {
+	const z = -4.0
+	m, err := NewMaterial(rectShape(0, 0, 100, 100), 0, MaterialOptions{})
+	noErr(t, err)
+	tp := &geom.Toolpath{Start: geom.Point3{X: -10, Y: 50, Z: z}}
+	tp.Moves = append(tp.Moves, line(geom.Link, 50, 50, z, 1000))
+	res, err := Simulate(context.Background(), m, tool10, tp, SimOptions{})
+	noErr(t, err)
+	want := 50 + tool10.Diameter/2
+	if l := res.Summary.LinkCutLength; math.Abs(l-want) > 2*DefaultStep {
+		t.Errorf("links cut over %.2f mm, want %.2f", l, want)
+	}
+	if a := res.Summary.LinkMaxAeD; math.Abs(a-1) > 1e-6 {
+		t.Errorf("link ae/D up to %.4f, want 1 (slotting)", a)
 	}
 }

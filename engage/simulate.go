@@ -149,6 +149,13 @@ type Summary struct {
 	AboveBandFraction float64    `json:"above_band_fraction"` // share of cutting length with ae/D > 1.15·max
 	AirFraction       float64    `json:"air_fraction"`        // air length over all feed length
 
+	// LinkCutLength is the length of link moves (geom.Link) that cut, mm,
+	// and LinkMaxAeD their largest ae/D: a planner's links are meant to
+	// run through cut material only. Programs read from G-code have no
+	// links, so both read 0 there.
+	LinkCutLength float64 `json:"link_cut_length"`
+	LinkMaxAeD    float64 `json:"link_max_ae_d"`
+
 	Plunges         int         `json:"plunges"`          // vertical feeds into material
 	RapidViolations []Violation `json:"rapid_violations"` // rapids through material, always listed
 	MaxAP           float64     `json:"max_ap"`           // deepest axial engagement, mm
@@ -581,6 +588,10 @@ func (s *simulator) account(p *Sample) {
 		return
 	}
 	aed := p.AE / s.t.Diameter
+	if p.Kind == geom.Link {
+		sum.LinkCutLength += p.Step
+		sum.LinkMaxAeD = math.Max(sum.LinkMaxAeD, aed)
+	}
 	phi := p.PhiDeg()
 	sum.MaxAeD = math.Max(sum.MaxAeD, aed)
 	sum.MaxPhi = math.Max(sum.MaxPhi, phi)

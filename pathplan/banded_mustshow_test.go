@@ -128,8 +128,8 @@ func bandedMustShowJob(t *testing.T, name string, job *Job) {
 		if channel {
 			airMax, ratioMax = 0.50, 3
 		}
-		t.Logf("%s / %s: in-band %.3f above %.4f maxMA %.3f (full windows %.3f) air %.3f gouge %.4f rapids-in-material %d uncut %.3f%% cycle %.1fs layered %.1fs bound %.1fs ratio %.2f channel share %.2f",
-			name, r.Name, s.InBandFraction, s.AboveBandFraction, s.MaxEng, s.MaxEngFull, s.AirFraction, gouge, len(s.RapidViolations), 100*uncut/fs.Area, r.CycleS, layered[r.Name], r.BoundS, r.Ratio, share)
+		t.Logf("%s / %s: in-band %.3f above %.4f maxMA %.3f (full windows %.3f) air %.3f gouge %.4f rapids-in-material %d uncut %.3f%% cycle %.1fs layered %.1fs bound %.1fs ratio %.2f channel share %.2f links cutting %.1f mm (ae/D up to %.3f)",
+			name, r.Name, s.InBandFraction, s.AboveBandFraction, s.MaxEng, s.MaxEngFull, s.AirFraction, gouge, len(s.RapidViolations), 100*uncut/fs.Area, r.CycleS, layered[r.Name], r.BoundS, r.Ratio, share, s.LinkCutLength, s.LinkMaxAeD)
 		type crit struct {
 			name   string
 			ok     bool

@@ -151,6 +151,9 @@ func printCheck(w io.Writer, name string, job *pathplan.Job, s engage.Summary) e
 	}
 	fmt.Fprintf(w, "  air %.1f %% of feed length; %d plunges; deepest axial engagement %.2f mm; removed %.0f mm³\n",
 		pct(s.AirFraction), s.Plunges, s.MaxAP, s.Volume)
+	if s.LinkCutLength > 0 {
+		fmt.Fprintf(w, "  links cut material over %.1f mm (ae/D up to %.3f)\n", s.LinkCutLength, s.LinkMaxAeD)
+	}
 	if s.BeyondFlute > 0 {
 		fmt.Fprintf(w, "  WARNING: %.1f mm of path cuts deeper than the flute length\n", s.BeyondFlute)
 	}
