@@ -138,10 +138,13 @@ type Summary struct {
 	MeanPhi float64 `json:"mean_phi_deg"`   // length-weighted mean angle, degrees
 	MaxEng  float64 `json:"max_engagement"` // largest 1 mm moving average of ae/D over cutting
 	// MaxEngFull is MaxEng over full 1 mm windows only. A window runs over
-	// consecutive cutting samples; MaxEng also counts a run shorter than
-	// 1 mm (after air, an entry or a rapid) over its own length, where
-	// MaxEngFull leaves it out (0 when no run reaches 1 mm). The two
-	// readings differ where the tool first bites after air.
+	// consecutive cutting samples and trails the sample it ends at; at the
+	// start of a run (after air, an entry or a rapid), until 1 mm has been
+	// cut, MaxEng counts the window over the length cut so far, so a run
+	// shorter than 1 mm counts over its own length and the first sample of
+	// a run alone. MaxEngFull leaves those short windows out (0 when no run
+	// reaches 1 mm). The two readings differ where the tool first bites
+	// after air.
 	MaxEngFull float64 `json:"max_engagement_full"`
 
 	Band              [2]float64 `json:"band"`
