@@ -745,24 +745,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		return err
 	}
 	if comp.open {
-		// Where the tool stands in the air beside the stock, at the start
-		// of the level or after a lift, the links to the next pass take
-		// it into the stock's edge, often head-on (the through slot of
-		// deep_open.json bites 0.37 mm into the end face at ae/D 0.23):
-		// that is an entry of the open level.
-		air := inAir
-		for i := range pieces {
-			switch pc := &pieces[i]; pc.kind {
-			case pieceLift:
-				air = !grown.Contains(pc.pts[len(pc.pts)-1])
-			case pieceLink:
-				if air {
-					pc.kind = pieceApproach
-				}
-			default:
-				air = false
-			}
-		}
+		bandedMarkApproaches(pieces, inAir, grown)
 	}
 	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
 	return nil
@@ -842,6 +825,28 @@ func bandedHelix(b *builder, c geom.Point, hr, z0, z1 float64, st bandedSettings
 	}
 	b.arc(geom.Entry, p3(opp, z1), c, true, st.entry)
 	b.arc(geom.Entry, p3(start, z1), c, true, st.entry)
+}
+
+// bandedMarkApproaches marks the links of an open level that start in the
+// air beside the stock (outside grown, the stock grown by the tool radius),
+// at the start of the level when air is set or after a lift that lands
+// there, as the approach to the next pass. Those links take the tool into
+// the stock's edge, often head-on (the through slot of deep_open.json bites
+// 0.37 mm into the end face at ae/D 0.23): they are the open level's
+// entries.
+func bandedMarkApproaches(pieces []bandedPiece, air bool, grown geom.Shape) {
+	for i := range pieces {
+		switch pc := &pieces[i]; pc.kind {
+		case pieceLift:
+			air = !grown.Contains(pc.pts[len(pc.pts)-1])
+		case pieceLink:
+			if air {
+				pc.kind = pieceApproach
+			}
+		default:
+			air = false
+		}
+	}
 }
 
 // bandedEmit turns a level's pieces into moves at z: runs between lifts

@@ -9,15 +9,22 @@ import (
 )
 
 // TestBandedOpenApproach checks how the open features of deep_open.json
-// are entered from the air: after each rapid, every move up to the first
-// pass is a descent that cuts nothing or a move marked as an entry at the
-// entry feed. Links run through cut material only (issue 6); the move that
+// (cleared by fronts) and open_slot.json (bays joined by a channel) are
+// entered from the air: after each rapid that comes down a tool radius
+// clear of the stock, every move up to the next pass is a descent that
+// cuts nothing or a move marked as an entry at the entry feed. Links run through cut material only (issue 6); the move that
 // takes the tool from the air into the edge of the stock is the open
 // feature's entry, and engage, which counts entries apart, must read no
 // link there that cuts.
 func TestBandedOpenApproach(t *testing.T) {
+	for _, name := range []string{"deep_open.json", "open_slot.json"} {
+		t.Run(name, func(t *testing.T) { bandedOpenApproach(t, name) })
+	}
+}
+
+func bandedOpenApproach(t *testing.T, name string) {
 	ctx := context.Background()
-	job, err := LoadJob("../testdata/jobs/deep_open.json")
+	job, err := LoadJob("../testdata/jobs/" + name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -38,10 +45,13 @@ func TestBandedOpenApproach(t *testing.T) {
 		moves := plan.Path.Moves[fs.First:fs.End]
 		approach := make([]bool, len(moves)) // between a rapid and the next pass
 		on := false
+		stock := job.Stock.Outline
 		for i, m := range moves {
 			switch m.Kind {
 			case geom.Rapid:
-				on = true
+				// Down in the air: a tool radius clear of the stock.
+				q := m.To.XY()
+				on = !stock.Contains(q) && stock.DistanceToBoundary(q) >= job.Tool.Radius()
 			case geom.Feed, geom.Finish:
 				on = false
 			}

@@ -214,6 +214,16 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		bandedHelixEntry(b, job, fi, bay.Deepest, pos, hr, levelTop, z, clear, st, sum)
 	}
 	var pieces []bandedPiece
+	// emit writes the pieces so far; the first ones start in the air when
+	// the level does (bandedMarkApproaches).
+	inAir := airFronts[first] != nil
+	emit := func() {
+		if comp.open {
+			bandedMarkApproaches(pieces, inAir, grown)
+		}
+		bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
+		pieces, inAir = nil, false
+	}
 	visited := make([]bool, len(zones.Bays))
 	doneCh := make([]bool, len(zones.Channels))
 	pitch := func(rt float64) float64 {
@@ -296,8 +306,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 					if hr < 0.1*st.r {
 						continue // no helix fits; the wall pass is all it gets
 					}
-					bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
-					pieces = nil
+					emit()
 					grids[other].markDisk(bay.Deepest, hr)
 					g.stampDisk(bay.Deepest, hr)
 					f := bandedDiskFront(bay.Deepest, hr, p)
@@ -347,7 +356,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		return err
 	}
 	pieces = append(pieces, spiralBoundary(g, comp.c, &pos, p)...)
-	bandedEmit(b, pieces, comp.c, z, levelTop, clear, st, sum)
+	emit()
 	return nil
 }
 
