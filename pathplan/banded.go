@@ -9,6 +9,7 @@ import (
 	"sort"
 	"sync"
 
+	"github.com/chipband/chipband/engage"
 	"github.com/chipband/chipband/geom"
 	"github.com/chipband/chipband/offset"
 )
@@ -231,6 +232,7 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 		}
 		worst = w
 	}
+
 	if err != nil {
 		return nil, err
 	}
@@ -240,6 +242,15 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 	}
 	for fi, w := range worst {
 		bandedApplyRepair(plan, fi, w)
+	}
+	if ver != nil {
+		for fi, sl := range ver.slots {
+			if sl.length > 0 {
+				plan.Warnings = append(plan.Warnings, fmt.Sprintf(
+					"feature %q: the simulation finds full slotting (ae/D %.1f or more) over %.1f mm, at axial depths up to %.1f mm; the feed there is held to the chip load, but check chip evacuation and tool deflection",
+					plan.Features[fi].Name, bandedSlotAeD, sl.length, sl.ap))
+			}
+		}
 	}
 	return plan, nil
 }
@@ -255,7 +266,31 @@ type bandedVerifier struct {
 	cancel context.CancelFunc
 	done   chan struct{}
 	worst  []map[int]float64
+	slots  []bandedSlotting
 	err    error
+}
+
+// bandedSlotting is where the simulation of one feature finds the tool
+// slotting: cutting with ae/D of bandedSlotAeD or more.
+type bandedSlotting struct {
+	length float64 // cutting length, mm
+	ap     float64 // deepest axial engagement there, mm
+}
+
+// bandedSlotAeD is the ae/D from which the banded verification warns of
+// full slotting.
+const bandedSlotAeD = 0.9
+
+// bandedFindSlotting measures the slotting in one feature's simulation.
+func bandedFindSlotting(job *Job, res *engage.Result) bandedSlotting {
+	var sl bandedSlotting
+	for _, smp := range res.Profile {
+		if smp.Class == engage.Cut && smp.AE >= bandedSlotAeD*job.Tool.Diameter {
+			sl.length += smp.Step
+			sl.ap = math.Max(sl.ap, smp.AP)
+		}
+	}
+	return sl
 }
 
 // bandedLanded is one feature handed to the verifier, its moves copied.
@@ -272,6 +307,7 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 		cancel: cancel,
 		done:   make(chan struct{}),
 		worst:  make([]map[int]float64, len(job.Features)),
+		slots:  make([]bandedSlotting, len(job.Features)),
 	}
 	go func() {
 		defer close(v.done)
@@ -287,6 +323,7 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 				continue
 			}
 			v.worst[l.fi] = bandedWorstChips(job, res)
+			v.slots[l.fi] = bandedFindSlotting(job, res)
 		}
 	}()
 	return v

@@ -2,6 +2,8 @@ package pathplan
 
 import (
 	"context"
+	"fmt"
+	"strings"
 	"testing"
 
 	"github.com/chipband/chipband/engage"
@@ -76,5 +78,47 @@ func bandedOpenApproach(t *testing.T, name string) {
 	}
 	if entries == 0 {
 		t.Error("no entry from the air into the stock")
+	}
+}
+
+// TestBandedSlottingWarning checks that a banded plan warns of full
+// slotting exactly on the features where the report's own simulation
+// reads ae/D of 0.9 or more (today the demo's boss pocket, where a drift
+// at an island wall runs through uncut material).
+func TestBandedSlottingWarning(t *testing.T) {
+	ctx := context.Background()
+	closed, err := LoadJob("../testdata/jobs/closed_pocket.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	slotting := 0
+	for _, job := range []*Job{DemoJob(), closed} {
+		plan, err := PlanBanded(ctx, job, BandedOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m := *DemoJob().Machine
+		if job.Machine != nil {
+			m = *job.Machine
+		}
+		rep, err := BandedReport(ctx, plan, m)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, r := range rep {
+			warned := false
+			for _, w := range plan.Warnings {
+				warned = warned || strings.Contains(w, fmt.Sprintf("feature %q: the simulation finds full slotting", r.Name))
+			}
+			if slot := r.Engagement.MaxAeD >= bandedSlotAeD; slot != warned {
+				t.Errorf("%s / %s: max ae/D %.3f, slotting warning %v", job.Name, r.Name, r.Engagement.MaxAeD, warned)
+			}
+			if warned {
+				slotting++
+			}
+		}
+	}
+	if slotting == 0 {
+		t.Skip("no feature of these jobs slots any more: the warning is not exercised")
 	}
 }
