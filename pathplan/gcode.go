@@ -96,6 +96,12 @@ func WriteGCode(w io.Writer, p *Plan) error {
 	for _, l := range wrap(SafetyCaution, 70) {
 		fmt.Fprintf(bw, "(%s)\n", l)
 	}
+	// The planner's warnings travel with the program, for whoever runs it.
+	for _, w := range p.Warnings {
+		for _, l := range wrap("WARNING: "+comment(w), 70) {
+			fmt.Fprintf(bw, "(%s)\n", l)
+		}
+	}
 	fmt.Fprintln(bw, "G21 G90 G17")
 	st := p.Path.Start
 	fmt.Fprintf(bw, "G0 Z%s\n", num(st.Z))

@@ -158,3 +158,37 @@ func TestGCodeHeaderAndDeterminism(t *testing.T) {
 		t.Error("number formatting: negative zero or exponent in the program")
 	}
 }
+
+// TestGCodeCarriesWarnings: the plan's warnings are written into the
+// program's header as comments, wrapped, with the characters that would
+// end a comment replaced, before the first motion.
+func TestGCodeCarriesWarnings(t *testing.T) {
+	p, err := PlanLayered(context.Background(), DemoJob(), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := `feature "boss pocket": the simulation finds full slotting (ae/D 0.9 or more) over 8.4 mm, at axial depths up to 8.0 mm; check chip evacuation`
+	p.Warnings = []string{w}
+	var buf bytes.Buffer
+	if err := WriteGCode(&buf, p); err != nil {
+		t.Fatal(err)
+	}
+	head, _, ok := strings.Cut(buf.String(), "G21 G90 G17")
+	if !ok {
+		t.Fatal("no G21 G90 G17 line")
+	}
+	var lines []string
+	for _, l := range strings.Split(head, "\n") {
+		if strings.HasPrefix(l, "(WARNING: ") || (len(lines) > 0 && strings.HasPrefix(l, "(") && !strings.HasPrefix(l, "(WARNING")) {
+			if len(l) > 72 {
+				t.Errorf("header line of %d characters: %q", len(l), l)
+			}
+			lines = append(lines, strings.TrimSuffix(strings.TrimPrefix(l, "("), ")"))
+		}
+	}
+	got := strings.Join(lines, " ")
+	want := "WARNING: " + strings.NewReplacer("(", " ", ")", " ", ";", " ").Replace(w)
+	if strings.Join(strings.Fields(got), " ") != strings.Join(strings.Fields(want), " ") {
+		t.Errorf("header carries %q, want %q", got, want)
+	}
+}
