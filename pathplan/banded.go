@@ -35,14 +35,18 @@ type BandedOptions struct {
 	// runs from wall to wall may be cut either way, whichever end is nearer,
 	// which saves the return through cut material.
 	ClimbOnly bool
-	// LeanIslands leans the ends of passes that meet an island of a
-	// pocket, as they lean onto outer walls, so that they meet it at 45°
-	// or less. A pass that ends square to an island beside the round end
-	// of the pass before reads over 90° of engaged arc on the crescent
-	// between the two ends; leaned, it does not. It costs time: the fronts
-	// then wind about the island (demo boss pocket: above-band share 0.028
-	// → 0.007, cycle 182 → 227 s on the demo router). Off by default.
-	LeanIslands bool
+	// SquareIslands leaves the ends of passes that meet an island of a
+	// pocket as they come, where by default they lean onto it, as onto
+	// outer walls, so that they meet it at 45° or less. A pass that ends
+	// square to an island beside the round end of the pass before reads
+	// over 90° of engaged arc on the crescent between the two ends, and
+	// where a front ends beyond the pass before, the drift onto it runs
+	// through uncut material in full slotting (demo boss pocket: ae/D over
+	// 0.9 over 8 mm at its full 8 mm depth). Square ends save time, since
+	// leaned ones make the fronts wind about the island: demo boss pocket
+	// cycle 227 -> 182 s on the demo router, above-band share 0.007 ->
+	// 0.028.
+	SquareIslands bool
 	// DirectTurns steps straight from the end of a pass at a wall to the
 	// start of the next pass beside it. By default the tool goes back
 	// along the pass just cut and drifts over onto the next one, so that
@@ -152,7 +156,7 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 	s.safe = 1
 	s.climbOnly = opt.ClimbOnly
 	s.directTurns = opt.DirectTurns
-	s.leanIslands = opt.LeanIslands
+	s.leanIslands = !opt.SquareIslands
 	s.pitches = &pitchCache{m: map[int]float64{}}
 	return s, nil
 }
@@ -188,8 +192,8 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 	}
 	fp := bandedParams(job, st, opts)
 	plan := &Plan{Job: job, Strategy: "banded"}
-	if opts.LeanIslands {
-		plan.Options = append(plan.Options, "islands leaned")
+	if opts.SquareIslands {
+		plan.Options = append(plan.Options, "islands square")
 	}
 	if opts.DirectTurns {
 		plan.Options = append(plan.Options, "direct turns")

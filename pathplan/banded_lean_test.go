@@ -106,8 +106,8 @@ func TestSpiralLeanEnd(t *testing.T) {
 		if a := 90 - endAngle(out, false); a > leanAngle+5 || a < leanAngle-10 {
 			t.Errorf("end meets the part at %.1f°, want about %d°", a, leanAngle)
 		}
-		// BandedOptions.LeanIslands: the island of a pocket, at 45°, over
-		// half a tool radius.
+		// The island of a pocket (the default, unless
+		// BandedOptions.SquareIslands), at 45°, over half a tool radius.
 		pi := p
 		pi.leanIslands = true
 		out = spiralLeanEnd(pts, isl, pi, false)
@@ -126,13 +126,13 @@ func TestSpiralLeanEnd(t *testing.T) {
 	})
 }
 
-// With BandedOptions.LeanIslands the pass ends that meet the demo's round
-// boss lean onto it, and the boss pocket's share of cutting length above
-// 1.15 × the band maximum falls to the issue's 1 % (engage simulation, the
-// criterion of issue 6). Without the option it is above that: the ends
+// By default the pass ends that meet the demo's round boss lean onto it,
+// and the boss pocket's share of cutting length above 1.15 × the band
+// maximum is within the issue's 1 % (engage simulation, the criterion of
+// issue 6). With BandedOptions.SquareIslands it is above that: the ends
 // meet the crescent the round end of the pass before left against the
-// boss (engage's TestPassEndCrescent). The price, on the demo router, is
-// logged.
+// boss (engage's TestPassEndCrescent). The time either way, on the demo
+// router, is logged.
 func TestBandedLeanIslands(t *testing.T) {
 	if testing.Short() {
 		t.Skip("plans and simulates the boss pocket twice")
@@ -147,7 +147,7 @@ func TestBandedLeanIslands(t *testing.T) {
 	}
 	above := map[bool]float64{}
 	for _, lean := range []bool{false, true} {
-		_, rep := planBandedReport(t, &job, BandedOptions{LeanIslands: lean}, *demo.Machine)
+		_, rep := planBandedReport(t, &job, BandedOptions{SquareIslands: !lean}, *demo.Machine)
 		s := rep[0].Engagement
 		above[lean] = s.AboveBandFraction
 		t.Logf("lean %v: in-band %.3f above %.4f cycle %.1f s ratio %.2f", lean, s.InBandFraction, s.AboveBandFraction, rep[0].CycleS, rep[0].Ratio)

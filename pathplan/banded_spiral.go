@@ -66,7 +66,8 @@ type spiralParams struct {
 	// features, where the holes are the part).
 	leanHoles bool
 	// leanIslands leans pass ends onto the islands of a pocket, more
-	// gently (islandLeanAngle, islandLeanSpan; BandedOptions.LeanIslands).
+	// gently (islandLeanAngle, islandLeanSpan), unless
+	// BandedOptions.SquareIslands.
 	leanIslands bool
 	// turnTau and turnFrac hold turnProfile for r, phi, phiMax and h,
 	// computed once per domain part.
@@ -957,7 +958,7 @@ func polySmooth(pts []geom.Point, closed bool, iters int) []geom.Point {
 const leanAngle = 30
 
 // islandLeanAngle and islandLeanSpan (times the tool radius) shape the lean
-// onto the islands of a pocket when BandedOptions.LeanIslands asks for it:
+// onto the islands of a pocket (unless BandedOptions.SquareIslands):
 // of 30° or 45° over a half or one and a half tool radii, 45° over half a
 // radius kept the band best for the least time on the demo's boss pocket,
 // the island pocket and the router sign (closing note of the session that
@@ -982,9 +983,11 @@ const (
 // the wall to leanAngle when sw = (lb/2)·(sin β/tan(leanAngle) − cos β); on
 // a curved wall each point keeps its distance to the wall. The next fronts
 // follow the leaned cut, so they mostly arrive leaning already. Island
-// walls of pockets are left alone unless p.leanIslands: the ends leaned
-// around an island and the fronts then wound about it (demo boss pocket:
-// 45 % more passes, 24 % more time, above-band share 0.028 → 0.007). In
+// walls of pockets are leaned with p.leanIslands, the default: the fronts
+// then wind about the island (demo boss pocket: 45 % more passes, 24 %
+// more time), but above-band share falls 0.028 → 0.007 and the full
+// slotting where square ends leave a front's start beyond the pass before
+// is gone. In
 // open features the holes are the part itself (an outside profile), and
 // there they lean as outer walls do (p.leanHoles).
 func spiralLeanEnd(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool) []geom.Point {

@@ -112,9 +112,9 @@ type Comparison struct {
 	Models []string `json:"models"`
 	// Band is the radial-engagement band of the job (ae/D).
 	Band [2]float64 `json:"band"`
-	// LeanIslands is set when the banded plan leaned its pass ends onto
-	// islands too (CompareOptions.Banded.LeanIslands).
-	LeanIslands bool `json:"lean_islands"`
+	// SquareIslands is set when the banded plan left its pass ends square
+	// to islands (CompareOptions.Banded.SquareIslands).
+	SquareIslands bool `json:"square_islands"`
 	// DirectTurns is set when the banded plan turned straight onto the
 	// next pass at walls (CompareOptions.Banded.DirectTurns).
 	DirectTurns bool `json:"direct_turns"`
@@ -382,8 +382,8 @@ func Compare(ctx context.Context, job *Job, opts CompareOptions) (*Comparison, e
 // the defaults.
 func (c *Comparison) BandedVariants() []string {
 	var out []string
-	if c.LeanIslands {
-		out = append(out, "pass ends lean onto islands")
+	if c.SquareIslands {
+		out = append(out, "pass ends square to islands")
 	}
 	if c.DirectTurns {
 		out = append(out, "turns straight onto the next pass at walls")
@@ -394,7 +394,7 @@ func (c *Comparison) BandedVariants() []string {
 // newComparison resolves the machine, the band and the work material of a
 // comparison.
 func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {
-	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, LeanIslands: opts.Banded.LeanIslands, DirectTurns: opts.Banded.DirectTurns}
+	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, SquareIslands: opts.Banded.SquareIslands, DirectTurns: opts.Banded.DirectTurns}
 	if c.Band[1] <= 0 {
 		c.Band = [2]float64{0.05, 0.10} // the planners' default band
 	}

@@ -37,7 +37,7 @@ type Plan struct {
 	// feature too narrow for the tool.
 	Warnings []string
 	// Options names the options the plan was made with that change the
-	// path, for the G-code header: "islands leaned" and "direct turns"
+	// path, for the G-code header: "islands square" and "direct turns"
 	// (BandedOptions); empty for the defaults.
 	Options []string
 }

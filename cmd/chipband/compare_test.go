@@ -116,11 +116,11 @@ func TestClock(t *testing.T) {
 	}
 }
 
-// compare --lean-islands plans banded as plan --lean-islands does: the JSON
-// says so, the header names it, and the banded plan of a pocket around an
-// island changes (its pass ends at the island lean). --direct-turns is
-// passed on the same way.
-func TestCompareLeanIslands(t *testing.T) {
+// compare --square-islands plans banded as plan --square-islands does: the
+// JSON says so, the header names it, and the banded plan of a pocket around
+// an island changes (its pass ends at the island no longer lean).
+// --direct-turns is passed on the same way.
+func TestCompareSquareIslands(t *testing.T) {
 	p := filepath.Join(t.TempDir(), "island.json")
 	err := os.WriteFile(p, []byte(`{
   "name": "ring pocket",
@@ -135,9 +135,9 @@ func TestCompareLeanIslands(t *testing.T) {
 		t.Fatal(err)
 	}
 	type result struct {
-		LeanIslands bool `json:"lean_islands"`
-		DirectTurns bool `json:"direct_turns"`
-		Features    []struct {
+		SquareIslands bool `json:"square_islands"`
+		DirectTurns   bool `json:"direct_turns"`
+		Features      []struct {
 			Banded struct {
 				CycleS float64 `json:"cycle_s"`
 			} `json:"banded"`
@@ -155,18 +155,18 @@ func TestCompareLeanIslands(t *testing.T) {
 		}
 		return r
 	}
-	off, on := run(), run("--lean-islands")
-	if off.LeanIslands || !on.LeanIslands {
-		t.Errorf("lean_islands %v without the flag, %v with it", off.LeanIslands, on.LeanIslands)
+	off, on := run(), run("--square-islands")
+	if off.SquareIslands || !on.SquareIslands {
+		t.Errorf("square_islands %v without the flag, %v with it", off.SquareIslands, on.SquareIslands)
 	}
 	if a, b := off.Features[0].Banded.CycleS, on.Features[0].Banded.CycleS; a == b {
-		t.Errorf("banded cycle %.1f s with and without --lean-islands: the flag did not reach the planner", a)
+		t.Errorf("banded cycle %.1f s with and without --square-islands: the flag did not reach the planner", a)
 	}
 	if r := run("--direct-turns"); !r.DirectTurns || off.DirectTurns || on.DirectTurns {
 		t.Errorf("direct_turns %v with --direct-turns, %v and %v without", r.DirectTurns, off.DirectTurns, on.DirectTurns)
 	}
-	code, out, stderr := runCLI(t, "compare", p, "--quiet", "--lean-islands")
-	if code != 0 || !strings.Contains(out, "banded pass ends lean onto islands") {
-		t.Errorf("exit %d, header does not name the lean:\n%s%s", code, out, stderr)
+	code, out, stderr := runCLI(t, "compare", p, "--quiet", "--square-islands")
+	if code != 0 || !strings.Contains(out, "banded pass ends square to islands") {
+		t.Errorf("exit %d, header does not name the square ends:\n%s%s", code, out, stderr)
 	}
 }

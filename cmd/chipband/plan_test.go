@@ -47,8 +47,8 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 		Machine string `json:"banded_machine"`
 		Source  string `json:"banded_machine_source"`
 		Options struct {
-			LeanIslands *bool `json:"lean_islands"`
-			DirectTurns *bool `json:"direct_turns"`
+			SquareIslands *bool `json:"square_islands"`
+			DirectTurns   *bool `json:"direct_turns"`
 		} `json:"banded_options"`
 	}
 	if err := json.Unmarshal(data, &r); err != nil {
@@ -64,8 +64,8 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 	if !(b.CycleS > 0 && b.BoundS > 0) || b.Ratio != b.CycleS/b.BoundS {
 		t.Errorf("cycle %.3f s, bound %.3f s, ratio %.3f: want positive times and their ratio", b.CycleS, b.BoundS, b.Ratio)
 	}
-	if o := r.Options; o.LeanIslands == nil || *o.LeanIslands || o.DirectTurns == nil || !*o.DirectTurns {
-		t.Errorf("banded_options %+v, want lean_islands false and direct_turns true", o)
+	if o := r.Options; o.SquareIslands == nil || *o.SquareIslands || o.DirectTurns == nil || !*o.DirectTurns {
+		t.Errorf("banded_options %+v, want square_islands false and direct_turns true", o)
 	}
 	if r.Source != "default" || r.Machine != pathplan.DemoMachine().Name {
 		t.Errorf("timed on %q (source %q), want %q (default)", r.Machine, r.Source, pathplan.DemoMachine().Name)
