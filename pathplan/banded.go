@@ -171,7 +171,8 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // beside it. Fronts are contours of the distance to the material left so
 // far (see bandedStock). The finished path is simulated with engage and,
 // where the engagement leaves the band, its feed is lowered to hold the
-// chip load (see BandedOptions.NoVerify); BandedReport measures the path.
+// chip load, and full slotting is named in Plan.Warnings (see
+// BandedOptions.NoVerify); BandedReport measures the path.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
 	// The other cores plan later features ahead.
 	return planBanded(ctx, job, opts, runtime.GOMAXPROCS(0)-1)
@@ -236,7 +237,6 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 		}
 		worst = w
 	}
-
 	if err != nil {
 		return nil, err
 	}
