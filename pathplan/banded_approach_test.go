@@ -83,8 +83,9 @@ func bandedOpenApproach(t *testing.T, name string) {
 
 // TestBandedSlottingWarning checks that a banded plan warns of full
 // slotting exactly on the features where the report's own simulation
-// reads ae/D of 0.9 or more (today the demo's boss pocket, where a drift
-// at an island wall runs through uncut material).
+// reads ae/D of 0.9 or more: the demo planned by default and with square
+// island ends (where, on the boss pocket, a drift at the island wall runs
+// through uncut material), and the closed test pocket.
 func TestBandedSlottingWarning(t *testing.T) {
 	ctx := context.Background()
 	closed, err := LoadJob("../testdata/jobs/closed_pocket.json")
@@ -92,15 +93,16 @@ func TestBandedSlottingWarning(t *testing.T) {
 		t.Fatal(err)
 	}
 	slotting := 0
-	for _, job := range []*Job{DemoJob(), closed} {
-		plan, err := PlanBanded(ctx, job, BandedOptions{})
+	for _, c := range []struct {
+		job  *Job
+		opts BandedOptions
+	}{{DemoJob(), BandedOptions{}}, {DemoJob(), BandedOptions{SquareIslands: true}}, {closed, BandedOptions{}}} {
+		job := c.job
+		plan, err := PlanBanded(ctx, job, c.opts)
 		if err != nil {
 			t.Fatal(err)
 		}
-		m := *DemoJob().Machine
-		if job.Machine != nil {
-			m = *job.Machine
-		}
+		m, _ := MachineFor(job, nil) // the machine times the plan only
 		rep, err := BandedReport(ctx, plan, m)
 		if err != nil {
 			t.Fatal(err)
@@ -111,7 +113,7 @@ func TestBandedSlottingWarning(t *testing.T) {
 				warned = warned || strings.Contains(w, fmt.Sprintf("feature %q: the simulation finds full slotting", r.Name))
 			}
 			if slot := r.Engagement.MaxAeD >= bandedSlotAeD; slot != warned {
-				t.Errorf("%s / %s: max ae/D %.3f, slotting warning %v", job.Name, r.Name, r.Engagement.MaxAeD, warned)
+				t.Errorf("%s / %s (%+v): max ae/D %.3f, slotting warning %v", job.Name, r.Name, c.opts, r.Engagement.MaxAeD, warned)
 			}
 			if warned {
 				slotting++
