@@ -220,6 +220,28 @@ func (g *bandedGrid) markDisk(c geom.Point, rad float64) {
 	}
 }
 
+// stockNear reports whether any node within rad of c holds material of the
+// level, cut or not (true when the grid knows no stock).
+func (g *bandedGrid) stockNear(c geom.Point, rad float64) bool {
+	if g.stock == nil {
+		return true
+	}
+	i0 := int(math.Floor((c.X - rad - g.x0) / g.h))
+	i1 := int(math.Ceil((c.X + rad - g.x0) / g.h))
+	j0 := int(math.Floor((c.Y - rad - g.y0) / g.h))
+	j1 := int(math.Ceil((c.Y + rad - g.y0) / g.h))
+	for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
+		dy := g.y0 + float64(j)*g.h - c.Y
+		for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
+			k := j*g.nx + i
+			if g.stock.mat[k] && math.Hypot(g.x0+float64(i)*g.h-c.X, dy) <= rad {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 // unreached counts domain nodes not yet swept.
 func (g *bandedGrid) unreached() int {
 	n := 0

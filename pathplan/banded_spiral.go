@@ -69,6 +69,9 @@ type spiralParams struct {
 	// gently (islandLeanAngle, islandLeanSpan), unless
 	// BandedOptions.SquareIslands.
 	leanIslands bool
+	// squareCorners leaves the boundary pass's corners sharp, without
+	// the fans of spiralCorners.
+	squareCorners bool
 	// turnTau and turnFrac hold turnProfile for r, phi, phiMax and h,
 	// computed once per domain part.
 	turnTau, turnFrac []float64
@@ -78,7 +81,7 @@ type spiralParams struct {
 // steps between 0.3 and 1.6 times the straight-cut width, and the drift of
 // the turns.
 func newSpiralParams(st bandedSettings) spiralParams {
-	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly, directTurns: st.directTurns, leanIslands: st.leanIslands}
+	p := spiralParams{r: st.r, phi: st.phi, phiMax: st.phiMax, h: st.h, climbOnly: st.climbOnly, directTurns: st.directTurns, leanIslands: st.leanIslands, squareCorners: st.squareCorners}
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
 	p.turnTau, p.turnFrac = turnProfile(p.r, straight, math.Max(p.phiMax, p.phi), 0.5*p.h)
@@ -301,6 +304,19 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 					bk, bd, bq = k, d, q
 				}
 			}
+			if !p.squareCorners {
+				// Start the ring away from the ends of its edge, where
+				// the corners' fillets run (spiralCorners), when the
+				// edge is long enough.
+				e0, e1 := rr[bk], rr[(bk+1)%n]
+				l := e0.Dist(e1)
+				m := math.Min(0.5*l, 2.5*cornerRoundRadius(p))
+				if u := bq.Dist(e0); l > 0 && u < m {
+					bq = e0.Lerp(e1, m/l)
+				} else if l > 0 && l-u < m {
+					bq = e0.Lerp(e1, 1-m/l)
+				}
+			}
 			pts := make([]geom.Point, 0, n+2)
 			pts = append(pts, bq)
 			for i := 1; i <= n; i++ {
@@ -312,7 +328,9 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 			t := rr[(bk+1)%n].Sub(rr[bk]).Unit()
 			nrm := geom.Pt(t.Y, -t.X) // the domain lies right of the climb direction
 			from := bq.Sub(t.Scale(lead)).Add(nrm.Scale(step))
-			if from.Dist(bq) > 1e-9 && c.Contains(from) && c.DistanceToBoundary(from) > 0.5*step && !g.crossesWalls(from, bq) {
+			// (The lead-in runs from the fronts' domain out to the wall,
+			// so it is checked against c, not the grid's walls.)
+			if from.Dist(bq) > 1e-9 && c.Contains(from) && c.DistanceToBoundary(from) > 0.5*step && insideAlong(c, from, bq) {
 				if d := pos.Dist(from); d > 1e-6 {
 					out = append(out, spiralLink(g, pos, from, p)...)
 				}
@@ -320,7 +338,11 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 			} else if bd > 1e-6 {
 				out = append(out, spiralLink(g, pos, bq, p)...)
 			}
-			out = append(out, bandedPiece{kind: pieceBoundary, pts: pts})
+			if p.squareCorners {
+				out = append(out, bandedPiece{kind: pieceBoundary, pts: pts})
+			} else {
+				out = append(out, spiralCorners(g, c, pts, p)...)
+			}
 			pos = pts[len(pts)-1]
 		}
 	}

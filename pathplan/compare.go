@@ -115,6 +115,9 @@ type Comparison struct {
 	// SquareIslands is set when the banded plan left its pass ends square
 	// to islands (CompareOptions.Banded.SquareIslands).
 	SquareIslands bool `json:"square_islands"`
+	// SquareCorners is set when the banded plan left the inside corners
+	// of its pass along the walls square (CompareOptions.Banded.SquareCorners).
+	SquareCorners bool `json:"square_corners"`
 	// DirectTurns is set when the banded plan turned straight onto the
 	// next pass at walls (CompareOptions.Banded.DirectTurns).
 	DirectTurns bool `json:"direct_turns"`
@@ -385,6 +388,9 @@ func (c *Comparison) BandedVariants() []string {
 	if c.SquareIslands {
 		out = append(out, "pass ends square to islands")
 	}
+	if c.SquareCorners {
+		out = append(out, "wall pass square in inside corners")
+	}
 	if c.DirectTurns {
 		out = append(out, "turns straight onto the next pass at walls")
 	}
@@ -394,7 +400,7 @@ func (c *Comparison) BandedVariants() []string {
 // newComparison resolves the machine, the band and the work material of a
 // comparison.
 func newComparison(job *Job, opts CompareOptions) (*Comparison, error) {
-	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, SquareIslands: opts.Banded.SquareIslands, DirectTurns: opts.Banded.DirectTurns}
+	c := &Comparison{Job: job, JobName: job.Name, Band: job.Cut.Band, SquareIslands: opts.Banded.SquareIslands, SquareCorners: opts.Banded.SquareCorners, DirectTurns: opts.Banded.DirectTurns}
 	if c.Band[1] <= 0 {
 		c.Band = [2]float64{0.05, 0.10} // the planners' default band
 	}

@@ -28,7 +28,8 @@ func FuzzPlanLayered(f *testing.F) {
 }
 
 // FuzzPlanBanded is FuzzPlanLayered for the banded strategy; the last
-// byte's two low bits also set BandedOptions.SquareIslands and DirectTurns.
+// byte's three low bits also set BandedOptions.SquareIslands, DirectTurns
+// and SquareCorners.
 func FuzzPlanBanded(f *testing.F) {
 	fuzzPlanSeeds(f)
 	f.Fuzz(func(t *testing.T, data []byte) { fuzzPlan(t, "banded", data) })
@@ -50,7 +51,7 @@ func fuzzPlan(t *testing.T, strat string, data []byte) {
 	var p *Plan
 	var err error
 	if n := len(data); strat == "banded" && n > 0 {
-		p, err = PlanBanded(ctx, j, BandedOptions{SquareIslands: data[n-1]&1 != 0, DirectTurns: data[n-1]&2 != 0})
+		p, err = PlanBanded(ctx, j, BandedOptions{SquareIslands: data[n-1]&1 != 0, DirectTurns: data[n-1]&2 != 0, SquareCorners: data[n-1]&4 != 0})
 	} else {
 		p, err = planWith(ctx, strat, j)
 	}

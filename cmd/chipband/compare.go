@@ -16,17 +16,18 @@ import (
 	"github.com/chipband/chipband/timing"
 )
 
-const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--square-islands] [--direct-turns] [--json] [--html R.html] [--quiet]"
+const compareSynopsis = "compare JOB [--machine M] [--material NAME] [--square-islands] [--square-corners] [--direct-turns] [--json] [--html R.html] [--quiet]"
 
 // runCompare implements `chipband compare JOB [--machine M] [--material
-// NAME] [--square-islands] [--direct-turns] [--json] [--html R.html]
-// [--quiet]`: it plans both strategies for every feature, times and
+// NAME] [--square-islands] [--square-corners] [--direct-turns] [--json]
+// [--html R.html] [--quiet]`: it plans both strategies for every feature, times and
 // simulates them and recommends one per feature.
 func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fl := newFlags("compare", compareSynopsis, stderr)
 	machinePath := fl.String("machine", "", "machine file (JSON); default: the job's machine, else the built-in bench mill")
 	material := fl.String("material", pathplan.DefaultMaterial, "work material for spindle power: "+materialNames())
 	squareIslands := fl.Bool("square-islands", false, "plan banded with its pass ends square to islands, as plan --square-islands does")
+	squareCorners := fl.Bool("square-corners", false, "plan banded with square inside corners on its pass along the walls, as plan --square-corners does")
 	directTurns := fl.Bool("direct-turns", false, "plan banded with direct turns at walls, as plan --direct-turns does")
 	asJSON := fl.Bool("json", false, "write the comparison as JSON on stdout")
 	htmlPath := fl.String("html", "", "also write a self-contained HTML report here")
@@ -44,6 +45,7 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 	}
 	opts := pathplan.CompareOptions{Material: *material, Detail: *htmlPath != ""}
 	opts.Banded.SquareIslands = *squareIslands
+	opts.Banded.SquareCorners = *squareCorners
 	opts.Banded.DirectTurns = *directTurns
 	if *machinePath != "" {
 		m, err := loadMachine(*machinePath)

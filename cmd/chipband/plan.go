@@ -18,15 +18,17 @@ import (
 )
 
 // runPlan implements `chipband plan JOB --strategy layered|banded -o OUT.nc
-// [--report R.json] [--svg OUT.svg] [--square-islands] [--direct-turns]`: it plans one
-// roughing strategy for a job and writes the G-code.
+// [--report R.json] [--svg OUT.svg] [--square-islands] [--square-corners]
+// [--direct-turns]`: it plans one roughing strategy for a job and writes
+// the G-code.
 func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fl := newFlags("plan", "plan JOB --strategy layered|banded -o OUT.nc [--report R.json] [--svg OUT.svg] [--square-islands] [--direct-turns]", stderr)
+	fl := newFlags("plan", "plan JOB --strategy layered|banded -o OUT.nc [--report R.json] [--svg OUT.svg] [--square-islands] [--square-corners] [--direct-turns]", stderr)
 	strategy := fl.String("strategy", "layered", "roughing strategy: layered or banded")
 	out := fl.String("o", "", "G-code file to write (required)")
 	reportPath := fl.String("report", "", "also write a JSON report of the plan here")
 	svgPath := fl.String("svg", "", "also write an SVG top view of the path here")
 	squareIslands := fl.Bool("square-islands", false, "banded: leave pass ends square to islands, saving time at the cost of engagement spikes, and full slotting, at island walls")
+	squareCorners := fl.Bool("square-corners", false, "banded: leave the inside corners of the pass along the walls square, without the fans that clear them, saving time at the cost of engagement spikes in every corner")
 	directTurns := fl.Bool("direct-turns", false, "banded: step straight onto the next pass at walls, saving time where passes are short at the cost of engagement spikes at pass ends")
 	pos, err := parseFlags(fl, args)
 	if err != nil {
@@ -38,7 +40,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	for _, f := range []struct {
 		name string
 		set  bool
-	}{{"--square-islands", *squareIslands}, {"--direct-turns", *directTurns}} {
+	}{{"--square-islands", *squareIslands}, {"--square-corners", *squareCorners}, {"--direct-turns", *directTurns}} {
 		if f.set && *strategy != "banded" {
 			return badInputf("%s applies to --strategy banded only", f.name)
 		}
@@ -65,7 +67,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	case "layered":
 		plan, err = pathplan.PlanLayered(ctx, job, pathplan.Options{})
 	case "banded":
-		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{SquareIslands: *squareIslands, DirectTurns: *directTurns})
+		plan, err = pathplan.PlanBanded(ctx, job, pathplan.BandedOptions{SquareIslands: *squareIslands, SquareCorners: *squareCorners, DirectTurns: *directTurns})
 	default:
 		return badInputf("unknown strategy %q (want layered or banded)", *strategy)
 	}
@@ -111,7 +113,7 @@ func runPlan(ctx context.Context, args []string, stdout, stderr io.Writer) error
 				return fmt.Errorf("banded report: %w", err)
 			}
 			pr.Banded, pr.BandedMachine, pr.BandedMachineSource = br, m.Name, src
-			pr.BandedOptions = &bandedOptionsJSON{SquareIslands: *squareIslands, DirectTurns: *directTurns}
+			pr.BandedOptions = &bandedOptionsJSON{SquareIslands: *squareIslands, SquareCorners: *squareCorners, DirectTurns: *directTurns}
 		}
 		data, err := json.MarshalIndent(pr, "", "  ")
 		if err != nil {
@@ -149,6 +151,7 @@ type planReportJSON struct {
 // bandedOptionsJSON records plan's banded flags in the report.
 type bandedOptionsJSON struct {
 	SquareIslands bool `json:"square_islands"`
+	SquareCorners bool `json:"square_corners"`
 	DirectTurns   bool `json:"direct_turns"`
 }
 

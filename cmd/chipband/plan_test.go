@@ -25,7 +25,7 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 }`)
 	dir := t.TempDir()
 	rep := filepath.Join(dir, "r.json")
-	code, _, stderr := runCLI(t, "plan", job, "--strategy", "banded", "-o", filepath.Join(dir, "p.nc"), "--report", rep, "--direct-turns")
+	code, _, stderr := runCLI(t, "plan", job, "--strategy", "banded", "-o", filepath.Join(dir, "p.nc"), "--report", rep, "--direct-turns", "--square-corners")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -48,6 +48,7 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 		Source  string `json:"banded_machine_source"`
 		Options struct {
 			SquareIslands *bool `json:"square_islands"`
+			SquareCorners *bool `json:"square_corners"`
 			DirectTurns   *bool `json:"direct_turns"`
 		} `json:"banded_options"`
 	}
@@ -64,8 +65,8 @@ func TestPlanBandedReportWithoutMachine(t *testing.T) {
 	if !(b.CycleS > 0 && b.BoundS > 0) || b.Ratio != b.CycleS/b.BoundS {
 		t.Errorf("cycle %.3f s, bound %.3f s, ratio %.3f: want positive times and their ratio", b.CycleS, b.BoundS, b.Ratio)
 	}
-	if o := r.Options; o.SquareIslands == nil || *o.SquareIslands || o.DirectTurns == nil || !*o.DirectTurns {
-		t.Errorf("banded_options %+v, want square_islands false and direct_turns true", o)
+	if o := r.Options; o.SquareIslands == nil || *o.SquareIslands || o.DirectTurns == nil || !*o.DirectTurns || o.SquareCorners == nil || !*o.SquareCorners {
+		t.Errorf("banded_options %+v, want square_islands false, square_corners and direct_turns true", o)
 	}
 	if r.Source != "default" || r.Machine != pathplan.DemoMachine().Name {
 		t.Errorf("timed on %q (source %q), want %q (default)", r.Machine, r.Source, pathplan.DemoMachine().Name)

@@ -1,0 +1,176 @@
+package pathplan
+
+import (
+	"context"
+	"math"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
+)
+
+// cornerMA returns the largest 1 mm moving average of ae/D (full windows
+// trailing each sample, over runs of cutting samples, as engage's
+// MaxEngFull) among the samples of moves from the index first on that lie
+// within rad of any of the points at.
+func cornerMA(res *engage.Result, d float64, first int, at []geom.Point, rad float64) float64 {
+	best := 0.0
+	p := res.Profile
+	for i := 0; i < len(p); {
+		if p[i].Class != engage.Cut {
+			i++
+			continue
+		}
+		j := i
+		for j < len(p) && p[j].Class == engage.Cut {
+			j++
+		}
+		for k := i; k < j; k++ {
+			near := false
+			for _, c := range at {
+				if p[k].Move < first {
+					break
+				}
+				if math.Hypot(p[k].X-c.X, p[k].Y-c.Y) <= rad {
+					near = true
+				}
+			}
+			if !near {
+				continue
+			}
+			l, v := 0.0, 0.0
+			for m := k; m >= i && l < 1; m-- {
+				l += p[m].Step
+				v += p[m].Step * p[m].AE / d
+			}
+			if l >= 1 {
+				best = math.Max(best, v/l)
+			}
+		}
+		i = j
+	}
+	return best
+}
+
+// TestBandedCornerFans checks the fans at the sharp inside corners of a
+// rectangular closed pocket (testdata closed_pocket.json, 8 mm tool, band
+// 5–10 %). Without them the last pass along the walls runs into each
+// corner and meets the strip along the next wall head-on: over the last w
+// (the strip's width, one 7.5 % step, 0.6 mm) of the approach the engaged
+// arc is the side arc plus the head-on chord's, 3·arccos(1 − w/r) ≈ 95°,
+// ae/D ≈ 0.55, so a 1 mm window there averages at least 0.6·0.55 ≈ 0.33
+// (elementary geometry). With the fans the windows about the corners stay
+// within issue 6's bound, band max + 0.03, and the corners left uncut stay
+// within its 0.2 % of the feature's area.
+func TestBandedCornerFans(t *testing.T) {
+	if testing.Short() {
+		t.Skip("plans and simulates a pocket twice")
+	}
+	job, err := LoadJob("../testdata/jobs/closed_pocket.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	r := job.Tool.Diameter / 2
+	// The tool-centre corners of the pocket (20..80 × 15..55).
+	corners := []geom.Point{{X: 20 + r, Y: 15 + r}, {X: 80 - r, Y: 15 + r}, {X: 80 - r, Y: 55 - r}, {X: 20 + r, Y: 55 - r}}
+	read := func(square bool) (ma, uncut float64, sum engage.Summary) {
+		plan, rep := planBandedReport(t, job, BandedOptions{SquareCorners: square, NoVerify: true}, *job.Machine)
+		if got := slices.Contains(plan.Options, "corners square"); got != square {
+			t.Errorf("square corners %v: plan options %q", square, plan.Options)
+		}
+		err = bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
+			// The pass along the walls, with its fans, is the last of
+			// the level; the fronts before it stay a step off the
+			// walls. It starts with the move before the first sample
+			// on a wall.
+			first := -1
+			for _, q := range res.Profile {
+				if q.Class == engage.Cut && math.Min(math.Min(q.X-(20+r), 80-r-q.X), math.Min(q.Y-(15+r), 55-r-q.Y)) < 0.01 {
+					first = q.Move - 1
+					break
+				}
+			}
+			if first < 0 {
+				t.Fatal("no cut on the walls")
+			}
+			ma = cornerMA(res, job.Tool.Diameter, first, corners, r)
+			return nil
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		sum = rep[0].Engagement
+		uncut = math.Inf(1)
+		for _, tg := range sum.Targets {
+			if strings.HasSuffix(tg.Name, " (reachable)") {
+				uncut = tg.UncutArea / plan.Features[0].Area
+			}
+		}
+		t.Logf("square corners %v: cycle %.1f s", square, rep[0].CycleS)
+		return ma, uncut, sum
+	}
+	fan, fu, fs := read(false)
+	square, su, ss := read(true)
+	t.Logf("1 mm moving average about the corners: %.3f with fans, %.3f square; uncut %.3f %% / %.3f %%; feature max (full windows) %.3f / %.3f",
+		fan, square, 100*fu, 100*su, fs.MaxEngFull, ss.MaxEngFull)
+	if square < 0.3 {
+		t.Errorf("square corners read %.3f about the corners, under the head-on estimate 0.33: the test does not see the corners", square)
+	}
+	if lim := job.Cut.Band[1] + 0.03; fan > lim {
+		t.Errorf("with fans the corners read %.3f, above band max + 0.03 = %.3f (issue 6)", fan, lim)
+	}
+	if fu > 0.002 {
+		t.Errorf("with fans %.3f %% of the pocket is left uncut, above issue 6's 0.2 %%", 100*fu)
+	}
+}
+
+// TestCornerRadii checks the fan's radii on a right-angle corner: each
+// fillet's bisector point lies one convex step (spiralStep) inside the
+// last one's, the bisector distance of a fillet of radius ρ being
+// ρ·(√2 − 1) at 90° (elementary geometry), and the fan ends at its last
+// radius. A sharper corner, which needs more than cornerMaxPasses such
+// steps, gets cornerMaxPasses falling radii that still end there.
+func TestCornerRadii(t *testing.T) {
+	p := spiralParams{r: 4, phi: bandedPhiOf(0.075), phiMax: bandedPhiOf(0.11)}
+	theta := math.Pi / 2
+	radii := cornerRadii(4, 0.5, theta, p)
+	if len(radii) < 3 || len(radii) > cornerMaxPasses {
+		t.Fatalf("radii %v", radii)
+	}
+	if last := radii[len(radii)-1]; math.Abs(last-0.5) > 1e-9 {
+		t.Errorf("fan ends at %.3f, want 0.5", last)
+	}
+	phi := 0.5 * (p.phi + p.phiMax)
+	prev := 4.0
+	for _, rho := range radii[:len(radii)-1] {
+		step := (prev - rho) * (math.Sqrt2 - 1)
+		if want := spiralStep(p.r, phi, rho, true); math.Abs(step-want) > 1e-6 {
+			t.Errorf("fillet %.3f after %.3f: bisector step %.4f, want %.4f", rho, prev, step, want)
+		}
+		prev = rho
+	}
+	sharp := cornerRadii(4, 0.08, 150*math.Pi/180, p)
+	if len(sharp) != cornerMaxPasses || math.Abs(sharp[len(sharp)-1]-0.08) > 1e-9 {
+		t.Errorf("150° turn: radii %v, want %d ending at 0.08", sharp, cornerMaxPasses)
+	}
+	for i := 1; i < len(sharp); i++ {
+		if sharp[i] >= sharp[i-1] {
+			t.Errorf("150° turn: radii %v do not fall", sharp)
+		}
+	}
+	// The fillet is tangent to both legs at ρ·tan(θ/2) from the corner.
+	// Down the y axis, then right turn onto −x: the fillet lies in the
+	// quadrant x < 0, y > 0, about (−2, 2).
+	f := cornerFillet(geom.Pt(0, 10), geom.Pt(0, 0), geom.Pt(-10, 0), theta, 2)
+	if a, b := f[0], f[len(f)-1]; a.Dist(geom.Pt(0, 2)) > 1e-9 || b.Dist(geom.Pt(-2, 0)) > 1e-9 {
+		t.Errorf("tangent points %v %v, want (0,2) and (-2,0)", a, b)
+	}
+	for _, q := range f {
+		if d := q.Dist(geom.Pt(-2, 2)); math.Abs(d-2) > 1e-9 {
+			t.Errorf("fillet point %v at %.6f from (-2,2), want 2", q, d)
+		}
+	}
+}
