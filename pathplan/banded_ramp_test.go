@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chipband/chipband/engage"
 	"github.com/chipband/chipband/geom"
 )
 
@@ -224,4 +225,53 @@ func TestBandedRampRandomSlots(t *testing.T) {
 		t.Errorf("only %d of %d slots ramped in", planned, n)
 	}
 	t.Logf("%d of %d slots ramped in", planned, n)
+}
+
+// TestBandedLoopAfterHelix checks the way out of the helix of a closed
+// pocket (testdata closed_pocket.json): the first loop of the spiral is
+// blended out of the helix's last circle, so the tool does not step
+// square into the first slab. A square step into a slab one 7.5 % step
+// wide engages the chord 2·arccos(1 − ae/r), ae/D 0.28 (elementary
+// geometry); blended, the first 3 mm after the helix stay within the
+// in-band range, up to 1.1 × the band maximum.
+func TestBandedLoopAfterHelix(t *testing.T) {
+	if testing.Short() {
+		t.Skip("plans and simulates a pocket")
+	}
+	job, err := LoadJob("../testdata/jobs/closed_pocket.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	plan, err := PlanBanded(ctx, job, BandedOptions{NoVerify: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
+		last := -1
+		for _, q := range res.Profile {
+			if q.Kind == geom.Entry {
+				last = q.Move
+			}
+		}
+		if last < 0 {
+			t.Fatal("no helix")
+		}
+		worst, l := 0.0, 0.0
+		for _, q := range res.Profile {
+			if q.Move <= last || l > 3 {
+				continue
+			}
+			l += q.Step
+			worst = math.Max(worst, q.AE/job.Tool.Diameter)
+		}
+		t.Logf("largest ae/D over the first %.1f mm after the helix: %.3f", l, worst)
+		if lim := 1.1 * job.Cut.Band[1]; worst > lim {
+			t.Errorf("ae/D %.3f after the helix, above %.3f", worst, lim)
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
 }

@@ -116,6 +116,12 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 	// end instead of crossing the cleared middle on every round.
 	stack := [][]spiralFront{start}
 	lastClosed := false
+	// onLoop: the tool stands on a closed start front (the end of a helix
+	// or of a ramp's stadium), so the first loop is blended out of it
+	// like the next loop of the spiral, instead of a link that steps
+	// square into the first slab (a head-on bite, ae/D 0.28 for a 7.5 %
+	// step, right after the entry).
+	onLoop := len(start) == 1 && start[0].closed && len(start[0].pts) > 0 && start[0].pts[0].Dist(pos) < 1e-6
 	// Open passes cut in this round and in the group it grows from, for
 	// the turns at walls.
 	var recent, older [][]geom.Point
@@ -236,7 +242,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 					}
 				}
 				out = append(out, bandedPiece{kind: pieceCut, pts: turn})
-			case lastClosed && f.closed && bd <= 2*p.maxStep+2*p.h:
+			case (lastClosed || onLoop) && f.closed && bd <= 2*p.maxStep+2*p.h:
 				// Spiral transition: bend the start of the new loop onto
 				// the end of the last one so the machine does not stop.
 				// The fronts take the loop as cut (model): the wedge the
@@ -250,7 +256,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			}
 			out = append(out, bandedPiece{kind: pieceCut, pts: pts, model: model})
 			pos = pts[len(pts)-1]
-			lastClosed = f.closed
+			lastClosed, onLoop = f.closed, false
 			if !f.closed {
 				recent = append(recent, pts)
 			}
