@@ -107,10 +107,10 @@ func cornerRadii(rho0, rhoEnd, theta float64, p spiralParams) []float64 {
 }
 
 // insideAlong reports whether the segment ab lies in c, to 1e-6 mm, at
-// points 0.02 mm apart: a segment that runs along a wall, or ends on it,
+// points 0.05 mm apart: a segment that runs along a wall, or ends on it,
 // as the boundary pass does, passes.
 func insideAlong(c geom.Shape, a, b geom.Point) bool {
-	n := max(1, int(math.Ceil(a.Dist(b)/0.02)))
+	n := max(1, int(math.Ceil(a.Dist(b)/0.05)))
 	for k := 0; k <= n; k++ {
 		if q := a.Lerp(b, float64(k)/float64(n)); !c.Contains(q) && c.DistanceToBoundary(q) > 1e-6 {
 			return false
@@ -193,7 +193,10 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 			}
 			f := cornerFillet(a, v, b, theta, rho)
 			pass := append(append([]geom.Point{prevA}, f...), prevB)
-			ok = fits(pass) && fits([]geom.Point{pass[len(pass)-1], f[0]})
+			// The pass's straight ends run on the legs, which are walls;
+			// the fillet and the chord back from the pass's end to the
+			// next one's start are what could leave c.
+			ok = fits(f) && fits([]geom.Point{prevB, f[0]})
 			fans = append(fans, pass)
 			prevA, prevB = f[0], f[len(f)-1]
 		}
