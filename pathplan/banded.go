@@ -58,13 +58,14 @@ type BandedOptions struct {
 	// 1 mm moving average spikes at pass ends (demo deep step 0.12 →
 	// 0.18). Off by default.
 	DirectTurns bool
-	// SquareCorners leaves the sharp inside corners of the last pass along
-	// the walls as they come. By default that pass rounds each corner
+	// SquareCorners leaves the inside corners of the last pass along the
+	// walls as they come, sharp or rounded little wider than the tool.
+	// By default that pass rounds each corner
 	// with a fillet of about 1.5 tool radii and clears what the fillet
 	// leaves with a fan of smaller fillets, so that it never meets the
 	// strip along the next wall head-on: square corners read ae/D 0.4 to
 	// 0.6 as a 1 mm moving average (closed test pocket 0.63, fanned
-	// 0.11), and cost less time (closed test pocket 118 against 132 s on
+	// 0.11), and cost less time (closed test pocket 118 against 126 s on
 	// the demo router).
 	SquareCorners bool
 }

@@ -15,7 +15,9 @@ import (
 // twice that of the strip ahead, 3·arccos(1 − w/r) in all (about 95° for a
 // 7.5 % step, ae/D 0.55, elementary geometry), plus the corner the fronts
 // could not reach. The 1 mm moving average over such a corner reads 0.4 to
-// 0.6 of the diameter.
+// 0.6 of the diameter. A corner of the part rounded a little wider than
+// the tool is no better: the tool centre turns it on a tight arc convex to
+// the strip (spiralPhi's convex relation: 73° for a 1 mm arc, D8, 7.5 %).
 //
 // Instead, the boundary pass rounds the corner with a fillet of radius
 // cornerRoundRadius (about 1.5r) and leaves the corner to a fan: fillets
@@ -23,12 +25,15 @@ import (
 // crescent between itself and the one before, thickest on the bisector.
 // The radius falls by the step that holds the engagement there
 // (spiralStep for a convex front; the bisector distance of a fillet of
-// radius ρ from the corner is ρ·(1/cos(θ/2) − 1) for a turn θ). Each fan
-// pass runs in climb, like the boundary pass, and the tool goes back to
-// the next one along the chord of the fillet it has just cut, through
-// cleared material. The fan costs time, its passes being short and
-// stopping at both ends (closed test pocket: 13 s on four corners on the
-// demo router); BandedOptions.SquareCorners leaves it out.
+// radius ρ from the corner is ρ·(1/cos(θ/2) − 1) for a turn θ). The fan's
+// passes zigzag: every other one runs the other way (conventional), from
+// the leg the last one ended on, so that the tool only goes back along that
+// leg over what it has just cut; with BandedOptions.ClimbOnly every pass
+// runs in climb and the tool goes back along the chord of the fillet it has
+// just cut. The fan costs time, its passes being short and stopping at
+// their ends: on the closed test pocket 7.4 s on four corners on the demo
+// router (13.1 s going back along the chords). BandedOptions.SquareCorners
+// leaves it out.
 
 const (
 	// cornerMinTurn is the smallest turn of the boundary pass treated as
@@ -76,17 +81,20 @@ func cornerRadii(rho0, rhoEnd, theta float64, p spiralParams) []float64 {
 	var out []float64
 	rho := rho0
 	for len(out) < 50*cornerMaxPasses && rho > rhoEnd+1e-9 {
-		// The step is set by the tighter of the two fillets; a few
-		// rounds of the fixed point settle it.
-		next := rho
+		// The step is set by the tighter of the two fillets: the next
+		// radius x solves (rho − x)·kappa = spiralStep at x, which changes
+		// sign on (0, rho) (bisection; a fixed point can oscillate where
+		// the turn is gentle and kappa small).
+		lo, hi := 0.0, rho
 		for range 60 {
-			s := spiralStep(p.r, phi, math.Max(next, 1e-3), true)
-			n := rho - s/kappa
-			if math.Abs(n-next) < 1e-9 {
-				break
+			x := 0.5 * (lo + hi)
+			if (rho-x)*kappa > spiralStep(p.r, phi, math.Max(x, 1e-3), true) {
+				lo = x
+			} else {
+				hi = x
 			}
-			next = n
 		}
+		next := 0.5 * (lo + hi)
 		if next < rhoEnd+0.25*(rho-next) {
 			next = rhoEnd
 		}
@@ -141,18 +149,25 @@ func cornerRoundRadius(p spiralParams) float64 {
 
 // spiralCorners splits the boundary pass pts, a ring walked in climb with
 // the domain on its right that starts and ends at pts[0], at its sharp
-// corners: each is rounded by a fillet of cornerRoundRadius, and the fan of
-// the corner follows it (see the top of this file). A corner whose fillets
-// would leave c stays as it is, and so does one in the air (no stock
-// within reach of the tool there).
+// inside corners: each is rounded by a fillet of cornerRoundRadius, and the
+// fan of the corner follows it (see the top of this file). A corner is one
+// vertex, or a run of vertices close together that all turn toward the
+// domain (a rounded corner of the part, whose tool-centre path is a tight
+// arc), turning 30–170° in all; its fillets are tangent to the lines of
+// the edges before and after it. Where a fillet no longer fits in c (the
+// corner's own arc, or an island in the corner) the fan ends with a pass
+// along the wall itself. A corner in the air (no stock within reach of the
+// tool) stays as it is.
 func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams) []bandedPiece {
 	// The last fillet: small enough that the corner left uncut is a few
 	// hundredths of a mm². Like the boundary pass's own corners (bandedEmit)
 	// it may be tighter than the cut data's smallest path radius, so that
 	// the corner is cleared.
 	rhoEnd := max(0.02*p.r, 1e-3)
+	round := cornerRoundRadius(p)
 	// The fillets lie inside the corner, off the walls; what could put
-	// them outside c is another wall (an island) standing in the corner.
+	// them outside c is the wall's own rounded corner, or another wall (an
+	// island) standing in the corner.
 	fits := func(q []geom.Point) bool {
 		for i := 1; i < len(q); i++ {
 			if !insideAlong(c, q[i-1], q[i]) {
@@ -161,60 +176,121 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 		}
 		return true
 	}
+	// turn returns the unit directions into and out of vertex k and the
+	// angle it turns by, positive toward the domain (right).
+	turn := func(k int) (d1, d2 geom.Point, th float64, ok bool) {
+		la, lb := pts[k-1].Dist(pts[k]), pts[k].Dist(pts[k+1])
+		if la < 1e-9 || lb < 1e-9 {
+			return d1, d2, 0, false
+		}
+		d1, d2 = pts[k].Sub(pts[k-1]).Scale(1/la), pts[k+1].Sub(pts[k]).Scale(1/lb)
+		th = math.Acos(max(-1, min(1, d1.Dot(d2))))
+		if d1.Cross(d2) > 0 {
+			th = -th
+		}
+		return d1, d2, th, true
+	}
 	var out []bandedPiece
 	cur := []geom.Point{pts[0]}
 	for i := 1; i+1 < len(pts); i++ {
-		a, v, b := pts[i-1], pts[i], pts[i+1]
+		d1, _, th, ok := turn(i)
+		if !ok || th <= 1e-3 {
+			cur = append(cur, pts[i])
+			continue
+		}
+		// The run: the vertices from i on that turn toward the domain
+		// with short edges between them.
+		j, theta, inner := i, th, 0.0
+		for j+2 < len(pts) {
+			l := pts[j].Dist(pts[j+1])
+			_, _, tn, ok := turn(j + 1)
+			if !ok || tn <= 1e-3 || l > 0.25*round {
+				break
+			}
+			j, theta, inner = j+1, theta+tn, inner+l
+		}
+		_, d2, _, _ := turn(j)
+		a, b := pts[i-1], pts[j+1]
+		// The corner point: where the lines of the edges before and
+		// after the run meet.
+		v := pts[i]
+		if j > i {
+			den := d1.Cross(d2)
+			if math.Abs(den) < 1e-9 {
+				cur = append(cur, pts[i:j+1]...)
+				i = j
+				continue
+			}
+			u := pts[j].Sub(pts[i]).Cross(d2) / den
+			v = pts[i].Add(d1.Scale(u))
+		}
 		la, lb := a.Dist(v), v.Dist(b)
-		if la < 1e-9 || lb < 1e-9 {
-			cur = append(cur, v)
-			continue
-		}
-		d1, d2 := v.Sub(a).Scale(1/la), b.Sub(v).Scale(1/lb)
-		theta := math.Acos(max(-1, min(1, d1.Dot(d2))))
-		if d1.Cross(d2) >= 0 || theta < cornerMinTurn || theta > 170*math.Pi/180 || !g.stockNear(v, p.r) {
-			cur = append(cur, v)
-			continue
-		}
 		tan := math.Tan(theta / 2)
-		rho0 := math.Min(cornerRoundRadius(p), cornerLegShare*math.Min(la, lb)/tan)
-		if rho0 < 2*rhoEnd {
-			cur = append(cur, v)
+		rho0 := 0.0
+		if theta >= cornerMinTurn && theta <= 170*math.Pi/180 && inner <= 0.5*round*theta {
+			rho0 = math.Min(round, cornerLegShare*math.Min(la, lb)/tan)
+		}
+		if rho0 < 2*rhoEnd || !g.stockNear(pts[(i+j)/2], p.r) {
+			cur = append(cur, pts[i:j+1]...)
+			i = j
 			continue
 		}
 		first := cornerFillet(a, v, b, theta, rho0)
-		radii := cornerRadii(rho0, rhoEnd, theta, p)
-		fans := make([][]geom.Point, 0, len(radii))
-		ok := fits(first) && fits([]geom.Point{first[len(first)-1], first[0]})
+		if !fits(first) || !fits([]geom.Point{first[len(first)-1], first[0]}) {
+			cur = append(cur, pts[i:j+1]...)
+			i = j
+			continue
+		}
+		var fans [][]geom.Point
+		wallPass := false // the last of fans runs along the wall
 		prevA, prevB := first[0], first[len(first)-1]
-		for _, rho := range radii {
-			if !ok {
-				break
-			}
+		for _, rho := range cornerRadii(rho0, rhoEnd, theta, p) {
 			f := cornerFillet(a, v, b, theta, rho)
-			pass := append(append([]geom.Point{prevA}, f...), prevB)
 			// The pass's straight ends run on the legs, which are walls;
 			// the fillet and the chord back from the pass's end to the
 			// next one's start are what could leave c.
-			ok = fits(f) && fits([]geom.Point{prevB, f[0]})
-			fans = append(fans, pass)
+			if !fits(f) || !fits([]geom.Point{prevB, f[0]}) {
+				// The last pass of the fan follows the wall.
+				wall := append(append([]geom.Point{prevA}, pts[i:j+1]...), prevB)
+				fans = append(fans, wall)
+				wallPass = true
+				break
+			}
+			fans = append(fans, append(append([]geom.Point{prevA}, f...), prevB))
 			prevA, prevB = f[0], f[len(f)-1]
-		}
-		if !ok {
-			cur = append(cur, v)
-			continue
 		}
 		cur = append(cur, first...)
 		out = append(out, bandedPiece{kind: pieceBoundary, pts: cur})
 		back := first[len(first)-1]
 		at := back
-		for _, f := range fans {
-			// Back along the chord of the fillet just cut.
-			out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, f[0]}})
-			out = append(out, bandedPiece{kind: pieceCut, pts: f})
+		for k, f := range fans {
+			if !p.climbOnly && k%2 == 0 {
+				// Zigzag: every other pass runs the other way, from
+				// the leg the last one ended on; the way there is back
+				// along that leg, over what the last pass cut.
+				f = spiralReversed(f)
+			}
+			if at.Dist(f[0]) > 1e-9 {
+				// Back along the chord of the fillet just cut, or along
+				// the leg.
+				out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, f[0]}})
+			}
+			kind := pieceCut
+			if wallPass && k == len(fans)-1 {
+				// Along the wall, its corners kept (bandedEmit).
+				kind = pieceBoundary
+			}
+			out = append(out, bandedPiece{kind: kind, pts: f})
 			at = f[len(f)-1]
 		}
+		if at.Dist(back) > 1e-9 && !p.climbOnly && len(fans)%2 == 1 {
+			// Ended on the first leg: across the cleared corner to the
+			// second.
+			out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, back}})
+			at = back
+		}
 		cur = []geom.Point{at, back}
+		i = j
 	}
 	cur = append(cur, pts[len(pts)-1])
 	return append(out, bandedPiece{kind: pieceBoundary, pts: cur})

@@ -303,8 +303,23 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 		for _, ring := range reg.Rings() {
 			rr := ring.Reversed()
 			n := len(rr)
+			// With corner fans the ring starts on an edge long enough to
+			// start away from its ends (below), the longest if none is:
+			// a start on the short edges of a rounded corner would split
+			// the corner.
+			minEdge := 0.0
+			if !p.squareCorners {
+				longest := 0.0
+				for k := range rr {
+					longest = math.Max(longest, rr[k].Dist(rr[(k+1)%n]))
+				}
+				minEdge = math.Min(5*cornerRoundRadius(p), longest)
+			}
 			bk, bd, bq := 0, math.Inf(1), rr[0]
 			for k := range rr {
+				if rr[k].Dist(rr[(k+1)%n]) < minEdge {
+					continue
+				}
 				q := geom.ClosestOnSegment(pos, rr[k], rr[(k+1)%n])
 				if d := q.Dist(pos); d < bd {
 					bk, bd, bq = k, d, q

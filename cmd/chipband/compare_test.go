@@ -119,7 +119,8 @@ func TestClock(t *testing.T) {
 // compare --square-islands plans banded as plan --square-islands does: the
 // JSON says so, the header names it, and the banded plan of a pocket around
 // an island changes (its pass ends at the island no longer lean).
-// --direct-turns is passed on the same way.
+// --direct-turns and --square-corners are passed on the same way (the
+// pocket's four corners lose their fans, so the banded time changes).
 func TestCompareSquareIslands(t *testing.T) {
 	p := filepath.Join(t.TempDir(), "island.json")
 	err := os.WriteFile(p, []byte(`{
@@ -136,6 +137,7 @@ func TestCompareSquareIslands(t *testing.T) {
 	}
 	type result struct {
 		SquareIslands bool `json:"square_islands"`
+		SquareCorners bool `json:"square_corners"`
 		DirectTurns   bool `json:"direct_turns"`
 		Features      []struct {
 			Banded struct {
@@ -164,6 +166,13 @@ func TestCompareSquareIslands(t *testing.T) {
 	}
 	if r := run("--direct-turns"); !r.DirectTurns || off.DirectTurns || on.DirectTurns {
 		t.Errorf("direct_turns %v with --direct-turns, %v and %v without", r.DirectTurns, off.DirectTurns, on.DirectTurns)
+	}
+	sq := run("--square-corners")
+	if !sq.SquareCorners || off.SquareCorners {
+		t.Errorf("square_corners %v with --square-corners, %v without", sq.SquareCorners, off.SquareCorners)
+	}
+	if a, b := off.Features[0].Banded.CycleS, sq.Features[0].Banded.CycleS; a == b {
+		t.Errorf("banded cycle %.1f s with and without --square-corners: the flag did not reach the planner", a)
 	}
 	code, out, stderr := runCLI(t, "compare", p, "--quiet", "--square-islands")
 	if code != 0 || !strings.Contains(out, "banded pass ends square to islands") {
