@@ -199,3 +199,34 @@ func TestCornerRadii(t *testing.T) {
 		}
 	}
 }
+
+// TestCornerLegShare checks how much of its legs a corner's fillets may
+// take: 0.45 of a leg shared with another corner, 0.9 of one whose far end
+// turns away from the domain. On the L below, walked clockwise, the corner
+// at (13, 10) has a 3 mm leg from the re-entrant vertex (10, 10) and a
+// 10 mm leg to the corner (13, 0): its first fillet, at a right angle,
+// takes 0.9·3 = 2.7 mm of each leg (radius 2.7, under cornerRoundRadius).
+func TestCornerLegShare(t *testing.T) {
+	p := spiralParams{r: 3, phi: bandedPhiOf(0.075), phiMax: bandedPhiOf(0.11), h: 0.1}
+	ring := []geom.Point{{X: 0, Y: 15}, {X: 0, Y: 30}, {X: 10, Y: 30}, {X: 10, Y: 10}, {X: 13, Y: 10}, {X: 13, Y: 0}, {X: 0, Y: 0}, {X: 0, Y: 15}}
+	c := geom.Shape{{Outer: geom.Ring(ring[:len(ring)-1]).Reversed()}}
+	if c.Area() <= 0 {
+		t.Fatalf("domain area %.1f", c.Area())
+	}
+	pieces := spiralCorners(&bandedGrid{}, c, ring, p)
+	want := geom.Pt(13-2.7, 10)
+	found := false
+	for _, pc := range pieces {
+		if pc.kind != pieceBoundary {
+			continue
+		}
+		for _, q := range pc.pts {
+			if q.Dist(want) < 1e-6 {
+				found = true
+			}
+		}
+	}
+	if !found {
+		t.Errorf("no fillet of the corner (13, 10) starts at %v", want)
+	}
+}
