@@ -337,6 +337,7 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 				} else if l > 0 && l-u < m {
 					bq = e0.Lerp(e1, 1-m/l)
 				}
+				bd = pos.Dist(bq)
 			}
 			pts := make([]geom.Point, 0, n+2)
 			pts = append(pts, bq)
