@@ -200,8 +200,9 @@ func (g *bandedGrid) node(p geom.Point) int {
 	return j*g.nx + i
 }
 
-// markDisk marks as reached every domain node within rad of c.
-func (g *bandedGrid) markDisk(c geom.Point, rad float64) {
+// diskNodes calls each with every grid node within rad of c, row by row,
+// until each returns false.
+func (g *bandedGrid) diskNodes(c geom.Point, rad float64, each func(k int) bool) {
 	i0 := int(math.Floor((c.X - rad - g.x0) / g.h))
 	i1 := int(math.Ceil((c.X + rad - g.x0) / g.h))
 	j0 := int(math.Floor((c.Y - rad - g.y0) / g.h))
@@ -209,15 +210,21 @@ func (g *bandedGrid) markDisk(c geom.Point, rad float64) {
 	for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
 		dy := g.y0 + float64(j)*g.h - c.Y
 		for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
-			k := j*g.nx + i
-			if !g.in[k] || g.reached[k] {
-				continue
-			}
-			if dx := g.x0 + float64(i)*g.h - c.X; math.Hypot(dx, dy) <= rad {
-				g.reached[k] = true
+			if dx := g.x0 + float64(i)*g.h - c.X; math.Hypot(dx, dy) <= rad && !each(j*g.nx+i) {
+				return
 			}
 		}
 	}
+}
+
+// markDisk marks as reached every domain node within rad of c.
+func (g *bandedGrid) markDisk(c geom.Point, rad float64) {
+	g.diskNodes(c, rad, func(k int) bool {
+		if g.in[k] {
+			g.reached[k] = true
+		}
+		return true
+	})
 }
 
 // stockNear reports whether any node within rad of c holds material of the
@@ -226,20 +233,12 @@ func (g *bandedGrid) stockNear(c geom.Point, rad float64) bool {
 	if g.stock == nil {
 		return true
 	}
-	i0 := int(math.Floor((c.X - rad - g.x0) / g.h))
-	i1 := int(math.Ceil((c.X + rad - g.x0) / g.h))
-	j0 := int(math.Floor((c.Y - rad - g.y0) / g.h))
-	j1 := int(math.Ceil((c.Y + rad - g.y0) / g.h))
-	for j := max(j0, 0); j <= j1 && j < g.ny; j++ {
-		dy := g.y0 + float64(j)*g.h - c.Y
-		for i := max(i0, 0); i <= i1 && i < g.nx; i++ {
-			k := j*g.nx + i
-			if g.stock.mat[k] && math.Hypot(g.x0+float64(i)*g.h-c.X, dy) <= rad {
-				return true
-			}
-		}
-	}
-	return false
+	found := false
+	g.diskNodes(c, rad, func(k int) bool {
+		found = g.stock.mat[k]
+		return !found
+	})
+	return found
 }
 
 // unreached counts domain nodes not yet swept.
