@@ -171,17 +171,6 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 	// the corner is cleared.
 	rhoEnd := max(0.02*p.r, 1e-3)
 	round := cornerRoundRadius(p)
-	// The fillets lie inside the corner, off the walls; what could put
-	// them outside c is the wall's own rounded corner, or another wall (an
-	// island) standing in the corner.
-	fits := func(q []geom.Point) bool {
-		for i := 1; i < len(q); i++ {
-			if !insideAlong(c, q[i-1], q[i]) {
-				return false
-			}
-		}
-		return true
-	}
 	// turn returns the unit directions into and out of vertex k and the
 	// angle it turns by, positive toward the domain (right).
 	turn := func(k int) (d1, d2 geom.Point, th float64, ok bool) {
@@ -249,68 +238,99 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 			}
 			rho0 = math.Min(round, math.Min(sa*la, sb*lb)/tan)
 		}
-		if rho0 < 2*rhoEnd || !g.stockNear(pts[(i+j)/2], p.r) {
+		var fan []bandedPiece
+		var back geom.Point
+		if rho0 >= 2*rhoEnd && g.stockNear(pts[(i+j)/2], p.r) {
+			fan, back = cornerFan(c, a, v, b, theta, rho0, rhoEnd, pts[i:j+1], p)
+		}
+		if fan == nil {
+			// The corner stays as it comes.
 			cur = append(cur, pts[i:j+1]...)
 			i = j
 			continue
 		}
-		first := cornerFillet(a, v, b, theta, rho0)
-		if !fits(first) || !fits([]geom.Point{first[len(first)-1], first[0]}) {
-			cur = append(cur, pts[i:j+1]...)
-			i = j
-			continue
-		}
-		var fans [][]geom.Point
-		wallPass := false // the last of fans runs along the wall
-		prevA, prevB := first[0], first[len(first)-1]
-		for _, rho := range cornerRadii(rho0, rhoEnd, theta, p) {
-			f := cornerFillet(a, v, b, theta, rho)
-			// The pass's straight ends run on the legs, which are walls;
-			// the fillet and the chord back from the pass's end to the
-			// next one's start are what could leave c.
-			if !fits(f) || !fits([]geom.Point{prevB, f[0]}) {
-				// The last pass of the fan follows the wall.
-				wall := append(append([]geom.Point{prevA}, pts[i:j+1]...), prevB)
-				fans = append(fans, wall)
-				wallPass = true
-				break
-			}
-			fans = append(fans, append(append([]geom.Point{prevA}, f...), prevB))
-			prevA, prevB = f[0], f[len(f)-1]
-		}
-		cur = append(cur, first...)
+		cur = append(cur, fan[0].pts...)
 		out = append(out, bandedPiece{kind: pieceBoundary, pts: cur})
-		back := first[len(first)-1]
+		out = append(out, fan[1:]...)
 		at := back
-		for k, f := range fans {
-			if !p.climbOnly && k%2 == 0 {
-				// Zigzag: every other pass runs the other way, from
-				// the leg the last one ended on; the way there is back
-				// along that leg, over what the last pass cut.
-				f = spiralReversed(f)
-			}
-			if at.Dist(f[0]) > 1e-9 {
-				// Back along the chord of the fillet just cut, or along
-				// the leg.
-				out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, f[0]}})
-			}
-			kind := pieceCut
-			if wallPass && k == len(fans)-1 {
-				// Along the wall, its corners kept (bandedEmit).
-				kind = pieceBoundary
-			}
-			out = append(out, bandedPiece{kind: kind, pts: f})
-			at = f[len(f)-1]
-		}
-		if at.Dist(back) > 1e-9 && !p.climbOnly && len(fans)%2 == 1 {
-			// Ended on the first leg: across the cleared corner to the
-			// second.
-			out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, back}})
-			at = back
+		if len(fan) > 1 {
+			last := fan[len(fan)-1].pts
+			at = last[len(last)-1]
 		}
 		cur = []geom.Point{at, back}
 		i = j
 	}
 	cur = append(cur, pts[len(pts)-1])
 	return append(out, bandedPiece{kind: pieceBoundary, pts: cur})
+}
+
+// cornerFan returns the pieces of one corner of the boundary pass: first
+// the fillet of radius rho0 that rounds it (as the end of the pass that
+// arrives there), then the fan's links and passes, and the point on the
+// second leg where the boundary pass goes on (the first fillet's end).
+// a, v and b are the corner's legs and point (v where the legs' lines
+// meet), theta its turn, wall the vertices of the wall between the legs.
+// It returns nil when the first fillet, or the way back along its chord,
+// does not fit in c.
+func cornerFan(c geom.Shape, a, v, b geom.Point, theta, rho0, rhoEnd float64, wall []geom.Point, p spiralParams) ([]bandedPiece, geom.Point) {
+	// The fillets lie inside the corner, off the walls; what could put
+	// them outside c is the wall's own rounded corner, or another wall (an
+	// island) standing in the corner.
+	fits := func(q ...geom.Point) bool {
+		for i := 1; i < len(q); i++ {
+			if !insideAlong(c, q[i-1], q[i]) {
+				return false
+			}
+		}
+		return true
+	}
+	first := cornerFillet(a, v, b, theta, rho0)
+	back := first[len(first)-1]
+	if !fits(first...) || !fits(back, first[0]) {
+		return nil, back
+	}
+	var fans [][]geom.Point
+	wallPass := false // the last of fans runs along the wall
+	prevA, prevB := first[0], back
+	for _, rho := range cornerRadii(rho0, rhoEnd, theta, p) {
+		f := cornerFillet(a, v, b, theta, rho)
+		// The pass's straight ends run on the legs, which are walls;
+		// the fillet and the chord back from the pass's end to the
+		// next one's start are what could leave c.
+		if !fits(f...) || !fits(prevB, f[0]) {
+			// The last pass of the fan follows the wall.
+			fans = append(fans, append(append([]geom.Point{prevA}, wall...), prevB))
+			wallPass = true
+			break
+		}
+		fans = append(fans, append(append([]geom.Point{prevA}, f...), prevB))
+		prevA, prevB = f[0], f[len(f)-1]
+	}
+	out := []bandedPiece{{kind: pieceBoundary, pts: first}}
+	at := back
+	for k, f := range fans {
+		if !p.climbOnly && k%2 == 0 {
+			// Zigzag: every other pass runs the other way, from the leg
+			// the last one ended on; the way there is back along that
+			// leg, over what the last pass cut.
+			f = spiralReversed(f)
+		}
+		if at.Dist(f[0]) > 1e-9 {
+			// Back along the chord of the fillet just cut, or along the
+			// leg.
+			out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, f[0]}})
+		}
+		kind := pieceCut
+		if wallPass && k == len(fans)-1 {
+			// Along the wall, its corners kept (bandedEmit).
+			kind = pieceBoundary
+		}
+		out = append(out, bandedPiece{kind: kind, pts: f})
+		at = f[len(f)-1]
+	}
+	if at.Dist(back) > 1e-9 && !p.climbOnly && len(fans)%2 == 1 {
+		// Ended on the first leg: across the cleared corner to the second.
+		out = append(out, bandedPiece{kind: pieceLink, pts: []geom.Point{at, back}})
+	}
+	return out, back
 }
