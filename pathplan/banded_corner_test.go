@@ -11,9 +11,10 @@ import (
 	"github.com/chipband/chipband/geom"
 )
 
-// cornerMA returns the largest 1 mm moving average of ae/D (full windows
-// trailing each sample, over runs of cutting samples, as engage's
-// MaxEngFull) among the samples of moves from the index first on that lie
+// cornerMA returns the largest 1 mm moving average of ae/D (windows
+// trailing each sample, over runs of cutting samples, as engage's MaxEng:
+// within the first millimetre of a run a window covers what the run has
+// cut so far) among the samples of moves from the index first on that lie
 // within rad of any of the points at.
 func cornerMA(res *engage.Result, d float64, first int, at []geom.Point, rad float64) float64 {
 	best := 0.0
@@ -45,7 +46,7 @@ func cornerMA(res *engage.Result, d float64, first int, at []geom.Point, rad flo
 				l += p[m].Step
 				v += p[m].Step * p[m].AE / d
 			}
-			if l >= 1 {
+			if l > 0 {
 				best = math.Max(best, v/l)
 			}
 		}
@@ -156,8 +157,11 @@ func TestBandedCornerFans(t *testing.T) {
 // fillet's bisector point lies one convex step (spiralStep) inside the
 // last one's, the bisector distance of a fillet of radius ρ being
 // ρ·(√2 − 1) at 90° (elementary geometry), and the fan ends at its last
-// radius. A sharper corner, which needs more than cornerMaxPasses such
-// steps, gets cornerMaxPasses falling radii that still end there.
+// radius. With the demo's 6 mm tool a right angle keeps every fillet down
+// to the last, 0.02r: no step is wider than the convex step at its radius,
+// the last no more than a quarter wider (a dropped fillet doubles a step).
+// A sharper corner, which needs more than cornerMaxPasses such steps, gets
+// cornerMaxPasses falling radii that still end there.
 func TestCornerRadii(t *testing.T) {
 	p := spiralParams{r: 4, phi: bandedPhiOf(0.075), phiMax: bandedPhiOf(0.11)}
 	theta := math.Pi / 2
@@ -168,7 +172,7 @@ func TestCornerRadii(t *testing.T) {
 	if last := radii[len(radii)-1]; math.Abs(last-0.5) > 1e-9 {
 		t.Errorf("fan ends at %.3f, want 0.5", last)
 	}
-	phi := 0.5 * (p.phi + p.phiMax)
+	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
 	prev := 4.0
 	for _, rho := range radii[:len(radii)-1] {
 		step := (prev - rho) * (math.Sqrt2 - 1)
@@ -176,6 +180,23 @@ func TestCornerRadii(t *testing.T) {
 			t.Errorf("fillet %.3f after %.3f: bisector step %.4f, want %.4f", rho, prev, step, want)
 		}
 		prev = rho
+	}
+	p3 := spiralParams{r: 3, phi: p.phi, phiMax: p.phiMax}
+	prev = cornerRoundRadius(p3)
+	for _, rho := range cornerRadii(prev, 0.06, theta, p3) {
+		most := spiralStep(p3.r, phi, rho, true)
+		if rho == 0.06 {
+			// cornerRadii snaps a step that comes within a quarter
+			// of the last radius onto it.
+			most = 1.25 * spiralStep(p3.r, phi, rho, true)
+		}
+		if step := (prev - rho) * (math.Sqrt2 - 1); step > most+1e-6 {
+			t.Errorf("6 mm tool: fillet %.3f after %.3f: bisector step %.4f, wider than the convex step %.4f", rho, prev, step, most)
+		}
+		prev = rho
+	}
+	if math.Abs(prev-0.06) > 1e-9 {
+		t.Errorf("6 mm tool: fan ends at %.3f, want 0.06", prev)
 	}
 	sharp := cornerRadii(4, 0.08, 150*math.Pi/180, p)
 	if len(sharp) != cornerMaxPasses || math.Abs(sharp[len(sharp)-1]-0.08) > 1e-9 {
