@@ -413,11 +413,11 @@ func bandedFeature(ctx context.Context, b *builder, fp bandedFeatureParams, fi i
 		if err := checkRasterBudget(f.Name, dom[i].c.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
 			return sum, fmt.Errorf("banded: %w", err)
 		}
-		z, err := bandedSplit(ctx, dom[i], st, fp.tol)
+		z, share, err := bandedSplit(ctx, dom[i], st, fp.tol)
 		if err != nil {
 			return sum, fmt.Errorf("banded: feature %q: %w", f.Name, err)
 		}
-		dom[i].zones = z
+		dom[i].zones, dom[i].channelShare = z, share
 	}
 	var own geom.Shape
 	for _, comp := range dom {
@@ -583,6 +583,8 @@ type bandedComp struct {
 	// zones is the part split into bays and channels, nil when it is
 	// cleared by fronts alone (see bandedSplit).
 	zones *offset.Zones
+	// channelShare is the share of the part's area in channels.
+	channelShare float64
 }
 
 // bandedDomain returns the tool-centre domain of a feature, split into its
@@ -702,6 +704,9 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		g.outer = newBandedWalls(comp.c, max(1, 8*st.h))
 	}
 	p := newSpiralParams(st)
+	if comp.channelShare < 0.5 {
+		p.turnMin = shortTurnMin
+	}
 	var start []spiralFront
 	var pos geom.Point
 	inAir := false

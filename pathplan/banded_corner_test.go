@@ -14,9 +14,10 @@ import (
 // cornerMA returns the largest 1 mm moving average of ae/D (windows
 // trailing each sample, over runs of cutting samples, as engage's MaxEng:
 // within the first millimetre of a run a window covers what the run has
-// cut so far) among the samples of moves from the index first on that lie
-// within rad of any of the points at.
-func cornerMA(res *engage.Result, d float64, first int, at []geom.Point, rad float64) float64 {
+// cut so far) among the samples of moves from the index first on, and
+// before end when end is positive, that lie within rad of any of the
+// points at.
+func cornerMA(res *engage.Result, d float64, first, end int, at []geom.Point, rad float64) float64 {
 	best := 0.0
 	p := res.Profile
 	for i := 0; i < len(p); {
@@ -31,7 +32,7 @@ func cornerMA(res *engage.Result, d float64, first int, at []geom.Point, rad flo
 		for k := i; k < j; k++ {
 			near := false
 			for _, c := range at {
-				if p[k].Move < first {
+				if p[k].Move < first || end > 0 && p[k].Move >= end {
 					break
 				}
 				if math.Hypot(p[k].X-c.X, p[k].Y-c.Y) <= rad {
@@ -114,7 +115,7 @@ func TestBandedCornerFans(t *testing.T) {
 			if first < 0 {
 				t.Fatal("no cut on the walls")
 			}
-			ma = cornerMA(res, job.Tool.Diameter, first, corners, rad)
+			ma = cornerMA(res, job.Tool.Diameter, first, 0, corners, rad)
 			return nil
 		})
 		if err != nil {

@@ -38,7 +38,6 @@ var bandedMustShowShort = map[string]bool{
 	"shallow_channels.json/channel recess/in-band": true,
 	"shallow_channels.json/channel recess/max":     true,
 	"two_depths.json/counterbore/max":              true,
-	"two_depths.json/deep pocket/above":            true,
 	"two_depths.json/deep pocket/cycle":            true,
 	"two_depths.json/deep pocket/max":              true,
 }

@@ -75,6 +75,9 @@ type spiralParams struct {
 	// turnTau and turnFrac hold turnProfile for r, phi, phiMax and h,
 	// computed once per domain part.
 	turnTau, turnFrac []float64
+	// turnMin is the length, in drift lengths (the last of turnTau), of
+	// the shortest pass spiralTurn ramps onto: 3, or shortTurnMin.
+	turnMin float64
 }
 
 // newSpiralParams returns the front parameters of the banded cut data st:
@@ -85,6 +88,7 @@ func newSpiralParams(st bandedSettings) spiralParams {
 	straight := st.r * (1 - math.Cos(st.phi))
 	p.minStep, p.maxStep = 0.3*straight, 1.6*straight
 	p.turnTau, p.turnFrac = turnProfile(p.r, straight, math.Max(p.phiMax, p.phi), 0.5*p.h)
+	p.turnMin = 3
 	return p
 }
 
@@ -492,6 +496,22 @@ func spiralExtend(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool) 
 	return append(pts, last)
 }
 
+// shortTurnMin is spiralParams.turnMin in a part whose area lies mostly
+// in bays: passes down to one drift length (1.5 mm for a 6 mm tool and the
+// 5–10 % band) get a turn, against three where channels hold most of it.
+// The short passes of a bay lie in its corners, where the fronts meet two
+// walls; stepped onto directly, each is bitten head-on by the link along
+// the wall. Measured (1 against 3, fans as now): share above 1.15 × the
+// band maximum, closed pocket .0071 → .0047, deep pocket of
+// two_depths.json .0129 → .0084, counterbore .0049 → .0035; link length
+// cutting, closed pocket 18.4 → 6.7 mm, deep pocket 12.9 → 5.4 mm; 1 mm
+// maximum of the closed pocket .183 → .148; cycle +1–6 % (closed pocket
+// 127.0 → 131.5 s, deep pocket 56.3 → 59.5 s). At 1.2, 1.5 and 2 the gains
+// shrink in turn (closed pocket above .0051, .0055, .0060). In a channel
+// every pass is a short one across it: there the turns took the channel
+// recess of shallow_channels.json from 394 to 742 s, and it keeps 3.
+const shortTurnMin = 1.0
+
 // spiralTurn returns the ramp onto the open pass next from a pass cut
 // beside it (one of cut, else of older), or nil when none runs beside its
 // start, with the neighbour pass it leaves from. Stepping straight from one
@@ -502,12 +522,12 @@ func spiralExtend(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool) 
 // drifting over onto next along turnProfile's curve (the engaged arc held
 // at 1.1 × the band maximum), and at the start of next reverses into the
 // pass, which then takes the wedge the drift left. A pass shorter than
-// three drift lengths gets no turn. The ramp starts on the neighbour pass
-// and ends at next's start.
+// p.turnMin drift lengths gets no turn. The ramp starts on the neighbour
+// pass and ends at next's start.
 func spiralTurn(g *bandedGrid, cut, older [][]geom.Point, next []geom.Point, p spiralParams) (ramp, along []geom.Point) {
 	tau, frac := p.turnTau, p.turnFrac
 	l := tau[len(tau)-1]
-	if polyLen(next) < 3*l {
+	if polyLen(next) < p.turnMin*l {
 		return nil, nil
 	}
 	reach := p.maxStep + 2*p.h

@@ -14,23 +14,26 @@ import (
 // than the tool is cleared by trochoidal loops, the rest by fronts. It
 // returns nil when the part has no channel, or when its channels are of a
 // kind the zoned planner does not handle yet (branches, no bay at all, bays
-// not joined by channels); the whole part is then cleared by fronts.
-func bandedSplit(ctx context.Context, comp bandedComp, st bandedSettings, tol float64) (*offset.Zones, error) {
+// not joined by channels); the whole part is then cleared by fronts. It
+// also returns the share of the part's area the channels hold, whether or
+// not the zoned planner takes them (0 when the split fails).
+func bandedSplit(ctx context.Context, comp bandedComp, st bandedSettings, tol float64) (*offset.Zones, float64, error) {
 	z, err := offset.Split(ctx, comp.c, st.r, tol, offset.SplitOptions{})
 	if err != nil {
 		if ctx.Err() != nil {
-			return nil, err
+			return nil, 0, err
 		}
 		// The split is an optimisation of the path; without it the
 		// fronts still clear the part.
-		return nil, nil
+		return nil, 0, nil
 	}
+	share := channelShare(z)
 	if len(z.Channels) == 0 || len(z.Bays) == 0 {
-		return nil, nil
+		return nil, share, nil
 	}
 	for _, ch := range z.Channels {
 		if len(ch.Branches) > 0 || len(ch.Ends) == 0 || len(ch.Ends) > 2 || len(ch.Spine) < 2 {
-			return nil, nil
+			return nil, share, nil
 		}
 	}
 	// Every bay must be reached from the first through channels.
@@ -51,10 +54,26 @@ func bandedSplit(ctx context.Context, comp bandedComp, st bandedSettings, tol fl
 	}
 	for _, s := range seen {
 		if !s {
-			return nil, nil
+			return nil, share, nil
 		}
 	}
-	return &z, nil
+	return &z, share, nil
+}
+
+// channelShare returns the share of the zones' area that lies in
+// channels, 0 when they have no area.
+func channelShare(z offset.Zones) float64 {
+	var bays, chans float64
+	for _, b := range z.Bays {
+		bays += geom.Shape{b.Region}.Area()
+	}
+	for _, ch := range z.Channels {
+		chans += geom.Shape{ch.Region}.Area()
+	}
+	if bays+chans <= 0 {
+		return 0
+	}
+	return chans / (bays + chans)
 }
 
 // bandedMask returns a grid over the same raster as g whose domain is the

@@ -825,17 +825,7 @@ func featureShape(ctx context.Context, job *Job, f Feature, tol float64) (share,
 	if err != nil {
 		return 0, width, fmt.Errorf("bays and channels: %w", err)
 	}
-	var bays, chans float64
-	for _, b := range z.Bays {
-		bays += geom.Shape{b.Region}.Area()
-	}
-	for _, ch := range z.Channels {
-		chans += geom.Shape{ch.Region}.Area()
-	}
-	if bays+chans <= 0 {
-		return 0, width, nil
-	}
-	return chans / (bays + chans), width, nil
+	return channelShare(z), width, nil
 }
 
 // heights returns the material top of every cell of m, NaN where there is
