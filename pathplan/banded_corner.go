@@ -172,6 +172,86 @@ func cornerRoundRadius(p spiralParams) float64 {
 	return 0.75 * math.Min(w*(2*p.r-w)/den, 4*p.r)
 }
 
+// boundaryCorner is a sharp inside corner of a boundary ring
+// (spiralCorners): the vertices pts[i..j] of the ring (one, or a run of
+// close vertices turning toward the domain), the far ends a and b of its
+// legs, the point v where the lines of the legs meet, its turn theta and
+// the radius rho0 of the fillet that rounds it, 0 where the corner is not
+// fanned (a turn outside 30–170°, a run that is itself rounded wider than
+// the fillet, or parallel legs).
+type boundaryCorner struct {
+	i, j    int
+	a, v, b geom.Point
+	theta   float64
+	rho0    float64
+}
+
+// cornerAt returns the corner of the ring pts (walked with the domain on
+// its right) that starts at vertex i, 0 < i < len(pts)−1, for fillets of
+// radius round; ok is false where vertex i does not turn toward the
+// domain.
+func cornerAt(pts []geom.Point, i int, round float64) (k boundaryCorner, ok bool) {
+	// turn returns the unit directions into and out of vertex k and the
+	// angle it turns by, positive toward the domain (right).
+	turn := func(k int) (d1, d2 geom.Point, th float64, ok bool) {
+		la, lb := pts[k-1].Dist(pts[k]), pts[k].Dist(pts[k+1])
+		if la < 1e-9 || lb < 1e-9 {
+			return d1, d2, 0, false
+		}
+		d1, d2 = pts[k].Sub(pts[k-1]).Scale(1/la), pts[k+1].Sub(pts[k]).Scale(1/lb)
+		th = math.Acos(max(-1, min(1, d1.Dot(d2))))
+		if d1.Cross(d2) > 0 {
+			th = -th
+		}
+		return d1, d2, th, true
+	}
+	d1, _, th, ok := turn(i)
+	if !ok || th <= 1e-3 {
+		return k, false
+	}
+	// The run: the vertices from i on that turn toward the domain with
+	// short edges between them.
+	j, theta, inner := i, th, 0.0
+	for j+2 < len(pts) {
+		l := pts[j].Dist(pts[j+1])
+		_, _, tn, ok := turn(j + 1)
+		if !ok || tn <= 1e-3 || l > 0.25*round {
+			break
+		}
+		j, theta, inner = j+1, theta+tn, inner+l
+	}
+	_, d2, _, _ := turn(j)
+	k = boundaryCorner{i: i, j: j, a: pts[i-1], v: pts[i], b: pts[j+1], theta: theta}
+	if j > i {
+		// The corner point: where the lines of the edges before and
+		// after the run meet.
+		den := d1.Cross(d2)
+		if math.Abs(den) < 1e-9 {
+			return k, true
+		}
+		u := pts[j].Sub(pts[i]).Cross(d2) / den
+		k.v = pts[i].Add(d1.Scale(u))
+	}
+	if theta < cornerMinTurn || theta > 170*math.Pi/180 || inner > 0.5*round*theta {
+		return k, true
+	}
+	// A leg whose far end turns away from the domain (or is the ring's
+	// start) is not shared with another corner's fillets.
+	sa, sb := cornerLegShare, cornerLegShare
+	if i-1 == 0 {
+		sa = cornerLegAlone
+	} else if _, _, tp, ok := turn(i - 1); ok && tp <= 1e-3 {
+		sa = cornerLegAlone
+	}
+	if j+1 == len(pts)-1 {
+		sb = cornerLegAlone
+	} else if _, _, tn, ok := turn(j + 1); ok && tn <= 1e-3 {
+		sb = cornerLegAlone
+	}
+	k.rho0 = math.Min(round, math.Min(sa*k.a.Dist(k.v), sb*k.v.Dist(k.b))/math.Tan(theta/2))
+	return k, true
+}
+
 // spiralCorners splits the boundary pass pts, a ring walked in climb with
 // the domain on its right that starts and ends at pts[0], at its sharp
 // inside corners: each is rounded by a fillet of cornerRoundRadius, and the
@@ -190,77 +270,19 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 	// the corner is cleared.
 	rhoEnd := max(0.02*p.r, 1e-3)
 	round := cornerRoundRadius(p)
-	// turn returns the unit directions into and out of vertex k and the
-	// angle it turns by, positive toward the domain (right).
-	turn := func(k int) (d1, d2 geom.Point, th float64, ok bool) {
-		la, lb := pts[k-1].Dist(pts[k]), pts[k].Dist(pts[k+1])
-		if la < 1e-9 || lb < 1e-9 {
-			return d1, d2, 0, false
-		}
-		d1, d2 = pts[k].Sub(pts[k-1]).Scale(1/la), pts[k+1].Sub(pts[k]).Scale(1/lb)
-		th = math.Acos(max(-1, min(1, d1.Dot(d2))))
-		if d1.Cross(d2) > 0 {
-			th = -th
-		}
-		return d1, d2, th, true
-	}
 	var out []bandedPiece
 	cur := []geom.Point{pts[0]}
 	for i := 1; i+1 < len(pts); i++ {
-		d1, _, th, ok := turn(i)
-		if !ok || th <= 1e-3 {
+		k, ok := cornerAt(pts, i, round)
+		if !ok {
 			cur = append(cur, pts[i])
 			continue
 		}
-		// The run: the vertices from i on that turn toward the domain
-		// with short edges between them.
-		j, theta, inner := i, th, 0.0
-		for j+2 < len(pts) {
-			l := pts[j].Dist(pts[j+1])
-			_, _, tn, ok := turn(j + 1)
-			if !ok || tn <= 1e-3 || l > 0.25*round {
-				break
-			}
-			j, theta, inner = j+1, theta+tn, inner+l
-		}
-		_, d2, _, _ := turn(j)
-		a, b := pts[i-1], pts[j+1]
-		// The corner point: where the lines of the edges before and
-		// after the run meet.
-		v := pts[i]
-		if j > i {
-			den := d1.Cross(d2)
-			if math.Abs(den) < 1e-9 {
-				cur = append(cur, pts[i:j+1]...)
-				i = j
-				continue
-			}
-			u := pts[j].Sub(pts[i]).Cross(d2) / den
-			v = pts[i].Add(d1.Scale(u))
-		}
-		la, lb := a.Dist(v), v.Dist(b)
-		tan := math.Tan(theta / 2)
-		rho0 := 0.0
-		if theta >= cornerMinTurn && theta <= 170*math.Pi/180 && inner <= 0.5*round*theta {
-			// A leg whose far end turns away from the domain (or is the
-			// ring's start) is not shared with another corner's fillets.
-			sa, sb := cornerLegShare, cornerLegShare
-			if i-1 == 0 {
-				sa = cornerLegAlone
-			} else if _, _, tp, ok := turn(i - 1); ok && tp <= 1e-3 {
-				sa = cornerLegAlone
-			}
-			if j+1 == len(pts)-1 {
-				sb = cornerLegAlone
-			} else if _, _, tn, ok := turn(j + 1); ok && tn <= 1e-3 {
-				sb = cornerLegAlone
-			}
-			rho0 = math.Min(round, math.Min(sa*la, sb*lb)/tan)
-		}
+		j := k.j
 		var fan []bandedPiece
 		var back geom.Point
-		if rho0 >= 2*rhoEnd && g.stockNear(pts[(i+j)/2], p.r) {
-			fan, back = cornerFan(c, a, v, b, theta, rho0, rhoEnd, pts[i:j+1], p)
+		if k.rho0 >= 2*rhoEnd && g.stockNear(pts[(i+j)/2], p.r) {
+			fan, back = cornerFan(c, k.a, k.v, k.b, k.theta, k.rho0, rhoEnd, pts[i:j+1], p)
 		}
 		if fan == nil {
 			// The corner stays as it comes.
