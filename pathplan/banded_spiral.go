@@ -128,7 +128,7 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 	onLoop := len(start) == 1 && start[0].closed && len(start[0].pts) > 0 && start[0].pts[0].Dist(pos) < 1e-6
 	// Open passes cut in this round and in the group it grows from, for
 	// the turns at walls.
-	var recent, older [][]geom.Point
+	var recent, older, loops [][]geom.Point
 	for iter := 0; iter < 100000 && len(stack) > 0; iter++ {
 		if err := ctx.Err(); err != nil {
 			return nil, pos, err
@@ -180,10 +180,12 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			g.sweepReached(segs)
 			continue
 		}
-		older, recent = nil, nil
+		older, loops, recent = nil, nil, nil
 		stamped := len(out)
 		for _, f := range prev {
-			if !f.closed {
+			if f.closed {
+				loops = append(loops, f.pts)
+			} else {
 				older = append(older, f.pts)
 			}
 		}
@@ -231,6 +233,15 @@ func spiralGrow(ctx context.Context, g *bandedGrid, c geom.Shape, start []spiral
 			var turn, along, model []geom.Point
 			if !f.closed && !p.directTurns && !(lastClosed && bd <= 2*p.maxStep+2*p.h) {
 				turn, along = spiralTurn(g, recent, older, pts, p)
+				if turn == nil {
+					// No open pass runs beside its start, but a loop of
+					// the last round may (the first open fronts after
+					// the loops): the ramp from it, without the link
+					// back along it, since the loop as cut was bent
+					// onto the one before it at its start (spiralBlend)
+					// and a link along it meets the wedge the bend left.
+					turn, _ = spiralTurn(g, loops, nil, pts, p)
+				}
 			}
 			switch {
 			case turn != nil:
