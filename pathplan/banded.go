@@ -687,9 +687,10 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	// band, instead of the scraps the passes' ends leave. (Open parts
 	// keep their fronts to the walls: measured worse there, the above-band
 	// share of the demo's deep step 0.008 → 0.027.)
+	p := newSpiralParams(st)
+	w := st.r * (1 - math.Cos(st.phi))
 	fc := comp.c
 	if !comp.open {
-		w := st.r * (1 - math.Cos(st.phi))
 		if sh, err := offset.Offset(comp.c, -w, DefaultTolerance); err == nil && len(sh) == 1 && sh.Area() > 0.8*comp.c.Area() {
 			fc = sh
 		}
@@ -698,12 +699,27 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 		return err
 	}
 	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
-	g.initStock(fc, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
+	g.initStock(fc, job.Stock.Outline, st.r, w)
+	if len(fc) > 0 && &fc[0] != &comp.c[0] && !st.squareCorners {
+		// The fronts leave the corners the boundary pass fans to the
+		// fans (cornerCaps).
+		near := func(q geom.Point) bool { return g.stockNear(q, st.r) }
+		if caps := cornerCaps(comp.c, w, p, near); len(caps) > 0 {
+			var taken geom.Shape
+			for _, k := range caps {
+				taken = append(taken, k.region())
+			}
+			if cut, err := geom.Difference(fc, taken); err == nil && len(cut) == 1 && cut.Area() > 0.8*fc.Area() {
+				fc, p.caps = cut, caps
+				g = newBandedGridPad(fc, st.h, st.r+2*st.h)
+				g.initStock(fc, job.Stock.Outline, st.r, w)
+			}
+		}
+	}
 	g.boundary = comp.c
 	if len(fc) > 0 && &fc[0] != &comp.c[0] {
 		g.outer = newBandedWalls(comp.c, max(1, 8*st.h))
 	}
-	p := newSpiralParams(st)
 	if comp.channelShare < 0.5 {
 		p.turnMin = shortTurnMin
 	}

@@ -30,10 +30,20 @@ import (
 // the leg the last one ended on, so that the tool only goes back along that
 // leg over what it has just cut; with BandedOptions.ClimbOnly every pass
 // runs in climb and the tool goes back along the chord of the fillet it has
-// just cut. The fan costs time, its passes being short and stopping at
-// their ends: on the closed test pocket 7.4 s on four corners on the demo
-// router (13.1 s going back along the chords). BandedOptions.SquareCorners
-// leaves it out.
+// just cut. BandedOptions.SquareCorners leaves the fans out.
+//
+// In a closed part the fronts stop a step short of the walls, and would
+// run into each corner in short crescents across it, each stepped onto by
+// a link along the wall that meets its slab head-on (ae/D 0.28 for a 7.5 %
+// step). Instead they leave each corner the boundary pass fans to the fan
+// (cornerCaps): they stop at an arc a fan's step inside the first fillet,
+// and the boundary pass cuts along that arc before the fillet. Measured
+// against fronts that ran into the corners (1 mm maximum / cycle on the
+// demo router): closed pocket .138 / 131.4 s → .130 / 127.7 s, deep
+// pocket of two_depths.json .197 / 59.6 s → .138 / 55.8 s, island pocket
+// .214 → .135, boss pocket .223 → .148; the shares above the band stay
+// within 0.1 points. The fans and caps then cost 7.0 s on the closed test
+// pocket's four corners (4.6 s with 5 mm corners).
 
 const (
 	// cornerMinTurn is the smallest turn of the boundary pass treated as
@@ -60,6 +70,14 @@ const (
 	// under 0.9 (.896), as the fillets' crescents thin out toward their
 	// ends.
 	cornerStepShare = 0.25
+	// capLead is how far, in tool radii, the pass along a corner's cap
+	// (cornerCap) runs along each leg's inset line before and after the
+	// cap's arc, so that it takes what the fronts left along that line
+	// where the first fillet meets it. Measured on the deep pocket of
+	// two_depths.json (share above 1.15 × the band maximum): .0107
+	// without, .0090 at 0.5, .0089 at 1 (+0.5 s), .0088 at 2, where the
+	// in-band share fell to .895.
+	capLead = 0.5
 	// cornerLegShare is the share of each leg a corner's fillets may use,
 	// so that the fillets of neighbouring corners never overlap;
 	// cornerLegAlone is the share of a leg no other corner's fillets use
@@ -152,6 +170,17 @@ func insideAlong(c geom.Shape, a, b geom.Point) bool {
 	return true
 }
 
+// insideChain reports whether the polyline q lies in c (insideAlong, edge
+// by edge).
+func insideChain(c geom.Shape, q ...geom.Point) bool {
+	for i := 1; i < len(q); i++ {
+		if !insideAlong(c, q[i-1], q[i]) {
+			return false
+		}
+	}
+	return true
+}
+
 // cornerRoundRadius returns the radius of the boundary pass's fillets. Where
 // a fillet runs convex along the strip the fronts left, one target step w
 // wide (bandedLevel), spiralPhi's convex relation with s = w,
@@ -170,6 +199,159 @@ func cornerRoundRadius(p spiralParams) float64 {
 		return 1.5 * p.r
 	}
 	return 0.75 * math.Min(w*(2*p.r-w)/den, 4*p.r)
+}
+
+// cornerEndRadius returns the radius of a fan's last fillet: small enough
+// that the corner left uncut is a few hundredths of a mm². Like the
+// boundary pass's own corners (bandedEmit) it may be tighter than the cut
+// data's smallest path radius, so that the corner is cleared.
+func cornerEndRadius(p spiralParams) float64 { return max(0.02*p.r, 1e-3) }
+
+// cornerCap is where the fronts leave a corner of a closed part to its
+// fan (cornerCaps). The fronts stop at an arc about the centre o of the
+// corner's first fillet, of radius rc, so that the strip left between
+// them holds the first fillet at the fan's step; it runs from x1 on the
+// line of the first leg, w inside it, to x2 on the second's (f1 is the
+// foot of o on the first of those lines, below t1, where the first fillet
+// starts). The fronts do not end exactly on the arc or on those lines, so
+// the boundary pass, arriving along the first leg, first cuts along them
+// (capDetour): from t0 on the leg in to g0 on its inset line, along that
+// line to x1, along the arc to x2, along the second inset line to h0, and
+// back across to g0 and t0. v is the corner's point, vi the inset walls'
+// corner.
+type cornerCap struct {
+	v, vi, o       geom.Point
+	t1, f1, x1, x2 geom.Point
+	t0, g0, h0     geom.Point
+	rc             float64
+}
+
+// arc returns the cap's arc from x1 to x2, clockwise about o (the sense
+// the fillets turn), in steps of at most 6°.
+func (k cornerCap) arc() []geom.Point {
+	a1 := math.Atan2(k.x1.Y-k.o.Y, k.x1.X-k.o.X)
+	a2 := math.Atan2(k.x2.Y-k.o.Y, k.x2.X-k.o.X)
+	sweep := math.Mod(a1-a2+4*math.Pi, 2*math.Pi)
+	n := max(2, int(math.Ceil(sweep/(6*math.Pi/180))))
+	pts := make([]geom.Point, 0, n+1)
+	for i := 0; i <= n; i++ {
+		a := a1 - sweep*float64(i)/float64(n)
+		pts = append(pts, geom.Pt(k.o.X+k.rc*math.Cos(a), k.o.Y+k.rc*math.Sin(a)))
+	}
+	pts[0], pts[n] = k.x1, k.x2
+	return pts
+}
+
+// region returns the part of the fronts' domain the cap takes: between
+// the inset walls' corner and the arc.
+func (k cornerCap) region() geom.Region {
+	arc := k.arc()
+	ring := geom.Ring{k.vi}
+	for q := len(arc) - 1; q >= 0; q-- {
+		ring = append(ring, arc[q])
+	}
+	return geom.Region{Outer: ring}.Normalized()
+}
+
+// capDetour returns the boundary pass's pieces along the cap, from t0 back
+// to t0.
+func capDetour(k cornerCap) []bandedPiece {
+	pass := append(append([]geom.Point{k.g0}, k.arc()...), k.h0)
+	return []bandedPiece{
+		{kind: pieceLink, pts: []geom.Point{k.t0, k.g0}},
+		{kind: pieceCut, pts: pass},
+		{kind: pieceLink, pts: []geom.Point{k.h0, k.g0, k.t0}},
+	}
+}
+
+// capAt returns the cap of the corner at v, if the fronts left one.
+func capAt(caps []cornerCap, v geom.Point) (cornerCap, bool) {
+	for _, k := range caps {
+		if k.v.Dist(v) < 1e-6 {
+			return k, true
+		}
+	}
+	return cornerCap{}, false
+}
+
+// cornerCaps returns the caps of the corners of c that the boundary pass
+// will fan (spiralCorners), for fronts that stay w inside the walls. The
+// fronts would otherwise run into each corner in short crescents across
+// it, each stepped onto by a link along the wall that meets its slab
+// head-on. A corner whose legs are too short for the full first fillet
+// (its radius then depends on where the boundary pass starts its ring) is
+// left as it is. stockNear reports whether stock lies within reach of a
+// point, as the boundary pass will find it.
+func cornerCaps(c geom.Shape, w float64, p spiralParams, stockNear func(geom.Point) bool) []cornerCap {
+	rhoEnd := cornerEndRadius(p)
+	round := cornerRoundRadius(p)
+	// The strip between the cap and the first fillet: the convex step at
+	// the fan's engagement (cornerRadii).
+	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
+	s := spiralStep(p.r, phi, round, true)
+	for range 4 {
+		s = spiralStep(p.r, phi, round-s, true)
+	}
+	s = math.Min(s, w)
+	var caps []cornerCap
+	for _, reg := range c {
+		for _, ring := range reg.Rings() {
+			// Walked as the boundary pass walks it (spiralBoundary),
+			// from the middle of its longest edge, so that no corner
+			// straddles the start.
+			rr := ring.Reversed()
+			n := len(rr)
+			bk, bl := 0, 0.0
+			for k := range rr {
+				if l := rr[k].Dist(rr[(k+1)%n]); l > bl {
+					bk, bl = k, l
+				}
+			}
+			mid := rr[bk].Lerp(rr[(bk+1)%n], 0.5)
+			pts := append(make([]geom.Point, 0, n+2), mid)
+			for i := 1; i <= n; i++ {
+				pts = append(pts, rr[(bk+i)%n])
+			}
+			pts = append(pts, mid)
+			for i := 1; i+1 < len(pts); i++ {
+				k, ok := cornerAt(pts, i, round)
+				if !ok {
+					continue
+				}
+				i = k.j
+				if k.rho0 < round-1e-9 || round < 2*rhoEnd || !stockNear(pts[(k.i+k.j)/2]) {
+					continue
+				}
+				// cornerFan's own test: the first fillet and the chord
+				// back across it lie in c.
+				first := cornerFillet(k.a, k.v, k.b, k.theta, k.rho0)
+				if !insideChain(c, first...) || !insideChain(c, first[len(first)-1], first[0]) {
+					continue
+				}
+				d1, d2 := k.v.Sub(k.a).Unit(), k.b.Sub(k.v).Unit()
+				n1, n2 := geom.Pt(d1.Y, -d1.X), geom.Pt(d2.Y, -d2.X)
+				t1, t2 := first[0], first[len(first)-1]
+				cp := cornerCap{v: k.v, t1: t1, rc: k.rho0 - s}
+				cp.o = t1.Add(n1.Scale(k.rho0))
+				cp.vi = k.v.Add(n1.Add(n2).Scale(w / (1 + d1.Dot(d2))))
+				cp.f1 = t1.Add(n1.Scale(w))
+				f2 := t2.Add(n2.Scale(w))
+				along := math.Sqrt(math.Max(0, cp.rc*cp.rc-(k.rho0-w)*(k.rho0-w)))
+				cp.x1 = cp.f1.Add(d1.Scale(along))
+				cp.x2 = f2.Sub(d2.Scale(along))
+				e1 := math.Min(capLead*p.r, 0.5*t1.Dist(k.a))
+				e2 := math.Min(capLead*p.r, 0.5*t2.Dist(k.b))
+				cp.t0 = t1.Sub(d1.Scale(e1))
+				cp.g0 = cp.f1.Sub(d1.Scale(e1))
+				cp.h0 = f2.Add(d2.Scale(e2))
+				if !insideChain(c, cp.t0, cp.g0, cp.x1) || !insideChain(c, cp.arc()...) || !insideChain(c, cp.x2, cp.h0, cp.g0) {
+					continue
+				}
+				caps = append(caps, cp)
+			}
+		}
+	}
+	return caps
 }
 
 // boundaryCorner is a sharp inside corner of a boundary ring
@@ -264,11 +446,7 @@ func cornerAt(pts []geom.Point, i int, round float64) (k boundaryCorner, ok bool
 // along the wall itself. A corner in the air (no stock within reach of the
 // tool) stays as it is.
 func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams) []bandedPiece {
-	// The last fillet: small enough that the corner left uncut is a few
-	// hundredths of a mm². Like the boundary pass's own corners (bandedEmit)
-	// it may be tighter than the cut data's smallest path radius, so that
-	// the corner is cleared.
-	rhoEnd := max(0.02*p.r, 1e-3)
+	rhoEnd := cornerEndRadius(p)
 	round := cornerRoundRadius(p)
 	var out []bandedPiece
 	cur := []geom.Point{pts[0]}
@@ -290,8 +468,17 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 			i = j
 			continue
 		}
-		cur = append(cur, fan[0].pts...)
-		out = append(out, bandedPiece{kind: pieceBoundary, pts: cur})
+		if cp, ok := capAt(p.caps, k.v); ok {
+			// The fronts left a cap here: along it first, from the
+			// first fillet's start and back.
+			cur = append(cur, cp.t0)
+			out = append(out, bandedPiece{kind: pieceBoundary, pts: cur})
+			out = append(out, capDetour(cp)...)
+			out = append(out, bandedPiece{kind: pieceBoundary, pts: append([]geom.Point{cp.t0}, fan[0].pts...)})
+		} else {
+			cur = append(cur, fan[0].pts...)
+			out = append(out, bandedPiece{kind: pieceBoundary, pts: cur})
+		}
 		out = append(out, fan[1:]...)
 		at := back
 		if len(fan) > 1 {
@@ -317,14 +504,7 @@ func cornerFan(c geom.Shape, a, v, b geom.Point, theta, rho0, rhoEnd float64, wa
 	// The fillets lie inside the corner, off the walls; what could put
 	// them outside c is the wall's own rounded corner, or another wall (an
 	// island) standing in the corner.
-	fits := func(q ...geom.Point) bool {
-		for i := 1; i < len(q); i++ {
-			if !insideAlong(c, q[i-1], q[i]) {
-				return false
-			}
-		}
-		return true
-	}
+	fits := func(q ...geom.Point) bool { return insideChain(c, q...) }
 	first := cornerFillet(a, v, b, theta, rho0)
 	back := first[len(first)-1]
 	if !fits(first...) || !fits(back, first[0]) {

@@ -252,3 +252,61 @@ func TestCornerLegShare(t *testing.T) {
 		t.Errorf("no fillet of the corner (13, 10) starts at %v", want)
 	}
 }
+
+// TestCornerCaps checks the caps the fronts leave to the fans in the
+// corners of a rectangular domain (60 × 40, 8 mm tool, band 5–10 %): one
+// per corner, its arc about the centre of the corner's first fillet,
+// which lies ρ0 from both walls (a fillet tangent to both, elementary
+// geometry), at the radius rc that holds the first fillet at the fan's
+// engagement φ on the strip between them, by the convex relation of
+// constant-engagement offsetting, (rc + r)² = ρ0² + r² + 2ρ0·r·cos φ (Int
+// J Adv Manuf Technol (2019), doi:10.1007/s00170-019-03834-8), and its
+// ends on the lines w inside the walls where the fronts stop.
+func TestCornerCaps(t *testing.T) {
+	const r = 4.0
+	p := spiralParams{r: r, phi: bandedPhiOf(0.075), phiMax: bandedPhiOf(0.11), h: 0.1}
+	w := r * (1 - math.Cos(p.phi))
+	c := geom.Shape{{Outer: geom.RectRing(20, 15, 80, 55)}}
+	caps := cornerCaps(c, w, p, func(geom.Point) bool { return true })
+	if len(caps) != 4 {
+		t.Fatalf("%d caps, want 4", len(caps))
+	}
+	rho0 := cornerRoundRadius(p)
+	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
+	wall := func(q geom.Point) float64 { // distance to the nearest wall line
+		return math.Min(math.Min(q.X-20, 80-q.X), math.Min(q.Y-15, 55-q.Y))
+	}
+	for _, k := range caps {
+		if dx, dy := math.Min(k.o.X-20, 80-k.o.X), math.Min(k.o.Y-15, 55-k.o.Y); math.Abs(dx-rho0) > 1e-6 || math.Abs(dy-rho0) > 1e-6 {
+			t.Errorf("cap at %v: centre %v is %.4f and %.4f from the walls, want ρ0 = %.4f", k.v, k.o, dx, dy, rho0)
+		}
+		if lhs, rhs := (k.rc+r)*(k.rc+r), rho0*rho0+r*r+2*rho0*r*math.Cos(phi); math.Abs(lhs-rhs) > 1e-3*rhs {
+			t.Errorf("cap at %v: radius %.4f: (rc + r)² = %.4f, the convex relation gives %.4f", k.v, k.rc, lhs, rhs)
+		}
+		if k.rc >= rho0 || k.rc <= rho0-w {
+			t.Errorf("cap at %v: radius %.4f outside (ρ0 − w, ρ0) = (%.4f, %.4f)", k.v, k.rc, rho0-w, rho0)
+		}
+		for _, q := range []geom.Point{k.x1, k.x2} {
+			if d := q.Dist(k.o); math.Abs(d-k.rc) > 1e-6 {
+				t.Errorf("cap at %v: arc end %v at %.4f from the centre, want %.4f", k.v, q, d, k.rc)
+			}
+			if d := wall(q); math.Abs(d-w) > 1e-6 {
+				t.Errorf("cap at %v: arc end %v at %.4f from the walls, want w = %.4f", k.v, q, d, w)
+			}
+		}
+		for _, q := range k.arc() {
+			if d := q.Dist(k.o); math.Abs(d-k.rc) > 1e-6 || wall(q) < w-1e-6 {
+				t.Errorf("cap at %v: arc point %v at %.4f from the centre and %.4f from the walls", k.v, q, d, wall(q))
+			}
+		}
+		if a := k.region().Area(); !(a > 0) {
+			t.Errorf("cap at %v: region of area %g", k.v, a)
+		}
+	}
+	// A corner whose legs are too short for the full first fillet gets
+	// none: a domain 2ρ0 wide.
+	narrow := geom.Shape{{Outer: geom.RectRing(0, 0, 60, 1.5*rho0)}}
+	if got := cornerCaps(narrow, w, p, func(geom.Point) bool { return true }); len(got) != 0 {
+		t.Errorf("narrow domain: %d caps, want 0", len(got))
+	}
+}

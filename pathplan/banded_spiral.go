@@ -75,6 +75,8 @@ type spiralParams struct {
 	// turnTau and turnFrac hold turnProfile for r, phi, phiMax and h,
 	// computed once per domain part.
 	turnTau, turnFrac []float64
+	// caps are the corners the fronts leave to the fans (cornerCaps).
+	caps []cornerCap
 	// turnMin is the length, in drift lengths (the last of turnTau), of
 	// the shortest pass spiralTurn ramps onto: 3, or shortTurnMin.
 	turnMin float64

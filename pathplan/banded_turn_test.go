@@ -158,8 +158,9 @@ func TestSpiralStepsCurvature(t *testing.T) {
 // geometry). Stepped onto that way, 1.2–1.4 % of the fronts' cutting
 // length within 3r of the corners lay above 1.15 × the band maximum. With
 // turns onto the short passes it stays within issue 6's 1 %. (The last
-// crescents, shorter than a drift, are still stepped onto: the 1 mm
-// windows there read up to 0.2.)
+// crescents, shorter than a drift, were still stepped onto, with 1 mm
+// windows up to 0.2; the fronts now leave them to the corner's fan,
+// cornerCaps.)
 func TestBandedCornerCrescents(t *testing.T) {
 	if testing.Short() {
 		t.Skip("plans and simulates two pockets")
