@@ -695,15 +695,13 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 			fc = sh
 		}
 	}
-	if err := checkRasterBudget(sum.Name, fc.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
-		return err
-	}
-	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
-	g.initStock(fc, job.Stock.Outline, st.r, w)
 	if len(fc) > 0 && &fc[0] != &comp.c[0] && !st.squareCorners {
 		// The fronts leave the corners the boundary pass fans to the
-		// fans (cornerCaps).
-		near := func(q geom.Point) bool { return g.stockNear(q, st.r) }
+		// fans (cornerCaps). The stock the boundary pass looks for
+		// there (bandedGrid.stockNear) is the stock outline's: the
+		// fronts stop short of the walls.
+		stock := job.Stock.Outline
+		near := func(q geom.Point) bool { return stock.Contains(q) || stock.DistanceToBoundary(q) < st.r }
 		if caps := cornerCaps(comp.c, w, p, near); len(caps) > 0 {
 			var taken geom.Shape
 			for _, k := range caps {
@@ -711,11 +709,14 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 			}
 			if cut, err := geom.Difference(fc, taken); err == nil && len(cut) == 1 && cut.Area() > 0.8*fc.Area() {
 				fc, p.caps = cut, caps
-				g = newBandedGridPad(fc, st.h, st.r+2*st.h)
-				g.initStock(fc, job.Stock.Outline, st.r, w)
 			}
 		}
 	}
+	if err := checkRasterBudget(sum.Name, fc.Bounds(), st.h, st.r+2*st.h, 0); err != nil {
+		return err
+	}
+	g := newBandedGridPad(fc, st.h, st.r+2*st.h)
+	g.initStock(fc, job.Stock.Outline, st.r, w)
 	g.boundary = comp.c
 	if len(fc) > 0 && &fc[0] != &comp.c[0] {
 		g.outer = newBandedWalls(comp.c, max(1, 8*st.h))

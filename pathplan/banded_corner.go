@@ -211,19 +211,18 @@ func cornerEndRadius(p spiralParams) float64 { return max(0.02*p.r, 1e-3) }
 // fan (cornerCaps). The fronts stop at an arc about the centre o of the
 // corner's first fillet, of radius rc, so that the strip left between
 // them holds the first fillet at the fan's step; it runs from x1 on the
-// line of the first leg, w inside it, to x2 on the second's (f1 is the
-// foot of o on the first of those lines, below t1, where the first fillet
-// starts). The fronts do not end exactly on the arc or on those lines, so
-// the boundary pass, arriving along the first leg, first cuts along them
-// (capDetour): from t0 on the leg in to g0 on its inset line, along that
-// line to x1, along the arc to x2, along the second inset line to h0, and
-// back across to g0 and t0. v is the corner's point, vi the inset walls'
-// corner.
+// line of the first leg, w inside it, to x2 on the second's. The fronts do
+// not end exactly on the arc or on those lines, so the boundary pass,
+// arriving along the first leg, first cuts along them (capDetour): from t0
+// on the leg, before the first fillet, in to g0 on its inset line, along
+// that line to x1, along the arc to x2, along the second inset line to
+// h0, and back across to g0 and t0. v is the corner's point, vi the inset
+// walls' corner.
 type cornerCap struct {
-	v, vi, o       geom.Point
-	t1, f1, x1, x2 geom.Point
-	t0, g0, h0     geom.Point
-	rc             float64
+	v, vi, o   geom.Point
+	x1, x2     geom.Point
+	t0, g0, h0 geom.Point
+	rc         float64
 }
 
 // arc returns the cap's arc from x1 to x2, clockwise about o (the sense
@@ -331,18 +330,19 @@ func cornerCaps(c geom.Shape, w float64, p spiralParams, stockNear func(geom.Poi
 				d1, d2 := k.v.Sub(k.a).Unit(), k.b.Sub(k.v).Unit()
 				n1, n2 := geom.Pt(d1.Y, -d1.X), geom.Pt(d2.Y, -d2.X)
 				t1, t2 := first[0], first[len(first)-1]
-				cp := cornerCap{v: k.v, t1: t1, rc: k.rho0 - s}
+				cp := cornerCap{v: k.v, rc: k.rho0 - s}
 				cp.o = t1.Add(n1.Scale(k.rho0))
 				cp.vi = k.v.Add(n1.Add(n2).Scale(w / (1 + d1.Dot(d2))))
-				cp.f1 = t1.Add(n1.Scale(w))
-				f2 := t2.Add(n2.Scale(w))
+				// f1 and f2: the feet of o on the inset lines, beside
+				// the first fillet's ends.
+				f1, f2 := t1.Add(n1.Scale(w)), t2.Add(n2.Scale(w))
 				along := math.Sqrt(math.Max(0, cp.rc*cp.rc-(k.rho0-w)*(k.rho0-w)))
-				cp.x1 = cp.f1.Add(d1.Scale(along))
+				cp.x1 = f1.Add(d1.Scale(along))
 				cp.x2 = f2.Sub(d2.Scale(along))
 				e1 := math.Min(capLead*p.r, 0.5*t1.Dist(k.a))
 				e2 := math.Min(capLead*p.r, 0.5*t2.Dist(k.b))
 				cp.t0 = t1.Sub(d1.Scale(e1))
-				cp.g0 = cp.f1.Sub(d1.Scale(e1))
+				cp.g0 = f1.Sub(d1.Scale(e1))
 				cp.h0 = f2.Add(d2.Scale(e2))
 				if !insideChain(c, cp.t0, cp.g0, cp.x1) || !insideChain(c, cp.arc()...) || !insideChain(c, cp.x2, cp.h0, cp.g0) {
 					continue
