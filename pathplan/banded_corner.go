@@ -241,14 +241,20 @@ func (k cornerCap) arc() []geom.Point {
 	return pts
 }
 
-// region returns the part of the fronts' domain the cap takes: between
-// the inset walls' corner and the arc.
+// region returns the part of the fronts' domain the cap takes: beyond the
+// arc. It reaches out to the walls' corner v, past the inset walls, so
+// that what is taken from the fronts' domain leaves no sliver along their
+// lines.
 func (k cornerCap) region() geom.Region {
 	arc := k.arc()
-	ring := geom.Ring{k.vi}
+	// The arc's ends carried out to the walls: as far again from the
+	// inset walls' corner as they are, along the lines through it.
+	out1, out2 := k.x1.Add(k.v.Sub(k.vi)), k.x2.Add(k.v.Sub(k.vi))
+	ring := geom.Ring{k.v, out2}
 	for q := len(arc) - 1; q >= 0; q-- {
 		ring = append(ring, arc[q])
 	}
+	ring = append(ring, out1)
 	return geom.Region{Outer: ring}.Normalized()
 }
 
