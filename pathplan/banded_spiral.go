@@ -514,7 +514,8 @@ func spiralExtend(pts []geom.Point, c geom.Shape, p spiralParams, atStart bool) 
 // 5–10 % band) get a turn, against three where channels hold most of it.
 // The short passes of a bay lie in its corners, where the fronts meet two
 // walls; stepped onto directly, each is bitten head-on by the link along
-// the wall. Measured (1 against 3, fans as now): share above 1.15 × the
+// the wall. Measured (1 against 3, before the corner caps, which took the
+// last crescents of the corners from the fronts): share above 1.15 × the
 // band maximum, closed pocket .0071 → .0047, deep pocket of
 // two_depths.json .0129 → .0084, counterbore .0049 → .0035; link length
 // cutting, closed pocket 18.4 → 6.7 mm, deep pocket 12.9 → 5.4 mm; 1 mm
