@@ -120,7 +120,7 @@ func cornerFillet(a, v, b geom.Point, theta, rho float64) []geom.Point {
 // rhoEnd, so that it still reaches the corner with larger steps.
 func cornerRadii(rho0, rhoEnd, theta float64, p spiralParams) []float64 {
 	kappa := 1/math.Cos(theta/2) - 1
-	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
+	phi := fanPhi(p)
 	var out []float64
 	rho := rho0
 	for len(out) < 50*cornerMaxPasses && rho > rhoEnd+1e-9 {
@@ -200,6 +200,10 @@ func cornerRoundRadius(p spiralParams) float64 {
 	}
 	return 0.75 * math.Min(w*(2*p.r-w)/den, 4*p.r)
 }
+
+// fanPhi returns the engagement angle the fans' steps are taken at
+// (cornerStepShare).
+func fanPhi(p spiralParams) float64 { return p.phi + cornerStepShare*(p.phiMax-p.phi) }
 
 // cornerEndRadius returns the radius of a fan's last fillet: small enough
 // that the corner left uncut is a few hundredths of a mm². Like the
@@ -292,7 +296,7 @@ func cornerCaps(c geom.Shape, w float64, p spiralParams, stockNear func(geom.Poi
 	round := cornerRoundRadius(p)
 	// The strip between the cap and the first fillet: the convex step at
 	// the fan's engagement (cornerRadii).
-	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
+	phi := fanPhi(p)
 	s := spiralStep(p.r, phi, round, true)
 	for range 4 {
 		s = spiralStep(p.r, phi, round-s, true)
@@ -327,10 +331,9 @@ func cornerCaps(c geom.Shape, w float64, p spiralParams, stockNear func(geom.Poi
 				if k.rho0 < round-1e-9 || round < 2*rhoEnd || !stockNear(pts[(k.i+k.j)/2]) {
 					continue
 				}
-				// cornerFan's own test: the first fillet and the chord
-				// back across it lie in c.
-				first := cornerFillet(k.a, k.v, k.b, k.theta, k.rho0)
-				if !insideChain(c, first...) || !insideChain(c, first[len(first)-1], first[0]) {
+				// cornerFan's own test.
+				first, ok := firstFillet(c, k.a, k.v, k.b, k.theta, k.rho0)
+				if !ok {
 					continue
 				}
 				d1, d2 := k.v.Sub(k.a).Unit(), k.b.Sub(k.v).Unit()
@@ -498,6 +501,15 @@ func spiralCorners(g *bandedGrid, c geom.Shape, pts []geom.Point, p spiralParams
 	return append(out, bandedPiece{kind: pieceBoundary, pts: cur})
 }
 
+// firstFillet returns the fillet of radius rho0 that rounds a corner of
+// the boundary pass (cornerFillet), and whether it and the chord back
+// across it lie in c: a fan is built, and the fronts leave the corner a
+// cap, only where they do.
+func firstFillet(c geom.Shape, a, v, b geom.Point, theta, rho0 float64) ([]geom.Point, bool) {
+	first := cornerFillet(a, v, b, theta, rho0)
+	return first, insideChain(c, first...) && insideChain(c, first[len(first)-1], first[0])
+}
+
 // cornerFan returns the pieces of one corner of the boundary pass: first
 // the fillet of radius rho0 that rounds it (as the end of the pass that
 // arrives there), then the fan's links and passes, and the point on the
@@ -511,9 +523,9 @@ func cornerFan(c geom.Shape, a, v, b geom.Point, theta, rho0, rhoEnd float64, wa
 	// them outside c is the wall's own rounded corner, or another wall (an
 	// island) standing in the corner.
 	fits := func(q ...geom.Point) bool { return insideChain(c, q...) }
-	first := cornerFillet(a, v, b, theta, rho0)
+	first, ok := firstFillet(c, a, v, b, theta, rho0)
 	back := first[len(first)-1]
-	if !fits(first...) || !fits(back, first[0]) {
+	if !ok {
 		return nil, back
 	}
 	var fans [][]geom.Point

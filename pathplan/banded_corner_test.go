@@ -173,7 +173,7 @@ func TestCornerRadii(t *testing.T) {
 	if last := radii[len(radii)-1]; math.Abs(last-0.5) > 1e-9 {
 		t.Errorf("fan ends at %.3f, want 0.5", last)
 	}
-	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
+	phi := fanPhi(p)
 	prev := 4.0
 	for _, rho := range radii[:len(radii)-1] {
 		step := (prev - rho) * (math.Sqrt2 - 1)
@@ -272,7 +272,7 @@ func TestCornerCaps(t *testing.T) {
 		t.Fatalf("%d caps, want 4", len(caps))
 	}
 	rho0 := cornerRoundRadius(p)
-	phi := p.phi + cornerStepShare*(p.phiMax-p.phi)
+	phi := fanPhi(p)
 	wall := func(q geom.Point) float64 { // distance to the nearest wall line
 		return math.Min(math.Min(q.X-20, 80-q.X), math.Min(q.Y-15, 55-q.Y))
 	}
