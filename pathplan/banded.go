@@ -25,11 +25,14 @@ type BandedOptions struct {
 	// about a third of the target radial width.
 	GridStep float64
 	// NoVerify skips the simulation and repair of the finished path. The
-	// repair today is the last resort only: the feed of every move on
-	// which the simulated chip is more than 10 % thicker than the chip
-	// load is lowered to hold it, and Plan.Warnings and the feature
-	// summaries name what was slowed. Extra passes and smaller steps are
-	// not built.
+	// repair first cuts an extra pass ahead of each stretch whose
+	// simulated engagement, as a 1 mm moving average, comes near the band
+	// maximum + 0.03 (FeatureSummary.ExtraPasses counts them); then, as
+	// the last resort, it lowers the feed of every move on which the
+	// simulated chip is thicker than the chip load, and Plan.Warnings and
+	// the feature summaries name what was slowed. It runs when the job
+	// gives the chip load, the spindle speed and the flutes. Smaller steps
+	// are not built.
 	NoVerify bool
 	// ClimbOnly keeps every pass in climb milling; by default a pass that
 	// runs from wall to wall may be cut either way, whichever end is nearer,
@@ -181,9 +184,10 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // depth first, so the tool follows one side of a split front to its end;
 // at a wall the tool turns onto the next pass by ramping along the pass
 // beside it. Fronts are contours of the distance to the material left so
-// far (see bandedStock). The finished path is simulated with engage and,
-// where the engagement leaves the band, its feed is lowered to hold the
-// chip load, and full slotting is named in Plan.Warnings (see
+// far (see bandedStock). The finished path is simulated with engage;
+// where the engagement rises above the band an extra pass is cut ahead of
+// the stretch, where it still leaves the band the feed is lowered to hold
+// the chip load, and full slotting is named in Plan.Warnings (see
 // BandedOptions.NoVerify); BandedReport measures the path.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
 	// The other cores plan later features ahead.
@@ -256,6 +260,9 @@ func planBanded(ctx context.Context, job *Job, opts BandedOptions, workers int) 
 		return nil, err
 	}
 	plan.Path = b.path
+	if ver != nil {
+		bandedInsertRepairs(plan, ver.moves, ver.extra)
+	}
 	for i := range plan.Features {
 		plan.Features[i].Length = opLength(&plan.Path, plan.Features[i].First, plan.Features[i].End)
 	}
@@ -286,7 +293,11 @@ type bandedVerifier struct {
 	done   chan struct{}
 	worst  []map[int]float64
 	slots  []bandedSlotting
-	err    error
+	// moves holds each feature's moves with the extra passes inserted
+	// (nil where none was), extra how many.
+	moves [][]geom.Move
+	extra []int
+	err   error
 }
 
 // bandedSlotting is where the simulation of one feature finds the tool
@@ -327,6 +338,8 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 		done:   make(chan struct{}),
 		worst:  make([]map[int]float64, len(job.Features)),
 		slots:  make([]bandedSlotting, len(job.Features)),
+		moves:  make([][]geom.Move, len(job.Features)),
+		extra:  make([]int, len(job.Features)),
 	}
 	go func() {
 		defer close(v.done)
@@ -336,13 +349,12 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 			if v.err != nil {
 				continue
 			}
-			res, err := sim.feature(ctx, l.fi, l.start, l.moves, false)
+			fv, err := sim.verify(ctx, l.fi, l.start, l.moves)
 			if err != nil {
 				v.err = err
 				continue
 			}
-			v.worst[l.fi] = bandedWorstChips(job, res)
-			v.slots[l.fi] = bandedFindSlotting(job, res)
+			v.moves[l.fi], v.extra[l.fi], v.worst[l.fi], v.slots[l.fi] = fv.moves, fv.extra, fv.worst, fv.slot
 		}
 	}()
 	return v

@@ -202,8 +202,8 @@ func TestBandedProgress(t *testing.T) {
 
 // TestBandedVerifyAsFeaturesLand checks that verifying each feature as it
 // lands, while later ones are planned, repairs the plan exactly as
-// simulating the finished plan does (bandedRepairFeeds): the same feeds,
-// summaries and warnings.
+// simulating the finished plan does (bandedRepairFeeds): the same extra
+// passes, feeds, summaries and warnings.
 func TestBandedVerifyAsFeaturesLand(t *testing.T) {
 	job, err := LoadJob("../testdata/jobs/two_depths.json")
 	if err != nil {
@@ -217,7 +217,7 @@ func TestBandedVerifyAsFeaturesLand(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := bandedRepairFeeds(context.Background(), want); err != nil {
+	if err := bandedRepairFeeds(context.Background(), want, true); err != nil {
 		t.Fatal(err)
 	}
 	slowed := 0
@@ -226,6 +226,13 @@ func TestBandedVerifyAsFeaturesLand(t *testing.T) {
 	}
 	if slowed == 0 {
 		t.Fatal("the repair slowed no move: the test shows nothing")
+	}
+	extra := 0
+	for _, f := range want.Features {
+		extra += f.ExtraPasses
+	}
+	if extra == 0 {
+		t.Fatal("the verification cut no extra pass: the test shows nothing")
 	}
 	if !reflect.DeepEqual(got.Path, want.Path) {
 		t.Error("paths differ")

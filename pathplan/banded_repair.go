@@ -7,9 +7,9 @@ import (
 	"github.com/chipband/chipband/geom"
 )
 
-// The feed repair is the last resort of the banded verification: each
-// feature is simulated with engage (bandedVerifier, as it lands), and on
-// every cutting move where the simulated engagement leaves the band (ae/D
+// The feed repair is the last resort of the banded verification, after
+// the extra passes (banded_extra.go): each feature is simulated with
+// engage (bandedVerifier, as it lands), and on every cutting move where the simulated engagement leaves the band (ae/D
 // above 1.1 × its maximum, the upper edge the in-band share counts) and the
 // largest chip (engage's h_max = fz·sin of the largest immersion angle met,
 // Altintas 2012, ch. 2, from memory) exceeds the chip load, the feed is
@@ -18,8 +18,8 @@ import (
 // Each feature records the moves and length slowed, a warning names them,
 // and the report and the G-code carry the lowered feeds.
 //
-// The other repairs (an extra pass ahead of an overload, a smaller step)
-// are not built: where the band is exceeded, the feed is what changes.
+// A smaller step (moving the pass itself) is not built: it would hand the
+// overload to the next pass.
 
 // bandedRepairs reports whether job gives the chip load the feed repair
 // holds.

@@ -6,20 +6,46 @@ import (
 	"testing"
 
 	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
 )
 
-// bandedRepairFeeds is the feed repair on the finished plan: every feature
-// simulated in order, then repaired. PlanBanded does the same feature by
-// feature as each lands (bandedVerifier); this is the reference its test
-// compares with.
-func bandedRepairFeeds(ctx context.Context, plan *Plan) error {
+// bandedRepairFeeds is the verification on the finished plan: every
+// feature simulated and relieved in order (bandedSim.verify), the extra
+// passes put into the path, then the feeds repaired unless feeds is false.
+// PlanBanded does the same feature by feature as each lands
+// (bandedVerifier); this is the reference its test compares with.
+func bandedRepairFeeds(ctx context.Context, plan *Plan, feeds bool) error {
 	if !bandedRepairs(plan.Job) {
 		return nil // no chip load to hold
 	}
-	return bandedSimEach(ctx, plan, false, func(fi int, res *engage.Result) error {
-		bandedApplyRepair(plan, fi, bandedWorstChips(plan.Job, res))
-		return nil
-	})
+	sim, err := newBandedSim(plan.Job)
+	if err != nil {
+		return err
+	}
+	var moves [][]geom.Move
+	var extra []int
+	var worst []map[int]float64
+	for fi, fs := range plan.Features {
+		start := plan.Path.Start
+		if fs.First > 0 {
+			start = plan.Path.Moves[fs.First-1].To
+		}
+		v, err := sim.verify(ctx, fi, start, plan.Path.Moves[fs.First:fs.End])
+		if err != nil {
+			return err
+		}
+		moves, extra, worst = append(moves, v.moves), append(extra, v.extra), append(worst, v.worst)
+	}
+	bandedInsertRepairs(plan, moves, extra)
+	for i := range plan.Features {
+		plan.Features[i].Length = opLength(&plan.Path, plan.Features[i].First, plan.Features[i].End)
+	}
+	if feeds {
+		for fi, w := range worst {
+			bandedApplyRepair(plan, fi, w)
+		}
+	}
+	return nil
 }
 
 // TestBandedRepairHoldsChipLoad plans a job with and without the
@@ -27,7 +53,7 @@ func bandedRepairFeeds(ctx context.Context, plan *Plan) error {
 // chip thicker than the chip load where the engagement leaves the band
 // (ae/D above 1.1 × its maximum); with it no such sample exceeds the chip
 // load, the plan says where the feed was lowered, and nothing but feeds
-// changed. The chip thickness is engage's h_max = fz·sin of the largest
+// changed beyond the extra passes the verification inserts. The chip thickness is engage's h_max = fz·sin of the largest
 // immersion angle met (Altintas 2012, ch. 2, from memory), fz the feed per
 // tooth of the programmed feed.
 func TestBandedRepairHoldsChipLoad(t *testing.T) {
@@ -38,6 +64,10 @@ func TestBandedRepairHoldsChipLoad(t *testing.T) {
 	}
 	raw, err := PlanBanded(ctx, job, BandedOptions{NoVerify: true})
 	if err != nil {
+		t.Fatal(err)
+	}
+	// The raw plan with the verification's extra passes, feeds as planned.
+	if err := bandedRepairFeeds(ctx, raw, false); err != nil {
 		t.Fatal(err)
 	}
 	fixed, err := PlanBanded(ctx, job, BandedOptions{})

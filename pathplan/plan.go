@@ -74,6 +74,10 @@ type FeatureSummary struct {
 	// BandedOptions.NoVerify).
 	SlowedMoves  int     `json:"slowed_moves,omitempty"`
 	SlowedLength float64 `json:"slowed_mm,omitempty"`
+	// ExtraPasses counts the extra passes the banded verification cut
+	// ahead of stretches whose simulated engagement rose above the band
+	// (the extra-pass repair, before the feed repair).
+	ExtraPasses int `json:"extra_passes,omitempty"`
 	// First and End delimit the feature's moves in Path.Moves.
 	First int `json:"-"`
 	End   int `json:"-"`

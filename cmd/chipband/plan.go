@@ -199,6 +199,10 @@ func writePlanText(w io.Writer, p *pathplan.Plan, rep *timing.Report, out string
 		}
 		fmt.Fprintf(&b, "  %-20s %-6s depth %5.2f mm, %2d levels, %3d passes, %2d entries, %2d lifts, %7.0f mm",
 			f.Name, kind, f.Depth, len(f.Levels), f.Rings, f.Entries, f.Lifts, f.Length)
+		if f.ExtraPasses > 0 {
+			// The verification's extra passes ahead of overloads.
+			fmt.Fprintf(&b, ", %d extra passes", f.ExtraPasses)
+		}
 		if t, ok := opTime[f.Name]; ok && rep != nil {
 			fmt.Fprintf(&b, ", %s", clock(t))
 		}

@@ -1,0 +1,571 @@
+package pathplan
+
+import (
+	"context"
+	"math"
+
+	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
+)
+
+// The extra-pass repair is the first repair of the banded verification:
+// where the simulated engagement of a pass, as a 1 mm moving average (the
+// issue's measure, windows at the start of a run included), comes within
+// extraPassMargin of the limit band maximum + 0.03, an extra pass is cut
+// just before the stretch. It is the stretch itself offset by δ toward the
+// side the pass has already cleared: it bends off the pass over
+// extraPassLead, takes the material beyond δ, and comes back along itself,
+// through what it has just cut, to where it left the pass; the pass then
+// cuts the rest. For a straight cut of width ae, the extra pass takes
+// ae − δ and the pass δ (elementary geometry). The pass only cuts what the
+// stretch would have, earlier, so the material the rest of the path meets
+// is the same. δ is chosen by simulating the stretch with the pass at a
+// few offsets (extraPassShares); a stretch no offset improves keeps its
+// overload. The feed repair (banded_repair.go) comes after it, on the
+// moves as repaired.
+
+// extraPassMargin is how far below the limit (band maximum + 0.03
+// as a 1 mm moving average of ae/D) a stretch is already relieved, so that
+// the repair's own uncertainty stays under the limit.
+const extraPassMargin = 0.005
+
+// extraPassLead is the length, mm, over which an extra pass bends off the
+// pass it relieves. It ends where the stretch ends: its disk there reaches
+// a radius beyond, and a pass that followed the path on round a corner
+// would swing its offset into the material the corner turns away from.
+const extraPassLead = 1.0
+
+// extraPassRounds is how many times the verification looks for stretches
+// to relieve, each round on the path the last one repaired.
+const extraPassRounds = 2
+
+// extraPassStep is the longest chord, mm, of the extra pass's polyline.
+const extraPassStep = 0.2
+
+// hotStretch is a run of cutting samples of one feature's simulation whose
+// 1 mm moving average of ae/D exceeds the repair limit: the moves m0..m1
+// (indices in the feature) that hold it and the tool-centre positions p0
+// and p1 of its first and last samples, its peak ae, mm, its largest
+// window, and the side of the pass the material lies on (+1 left, −1
+// right).
+type hotStretch struct {
+	m0, m1 int
+	p0, p1 geom.Point
+	s0, s1 float64 // arc length along the feature's path at p0 and p1
+	peakAE float64
+	maxWin float64
+	side   float64
+}
+
+// hotStretches returns the stretches of res whose 1 mm moving average of
+// ae/D (over consecutive cutting samples, as engage's MaxEng takes it)
+// exceeds limit, with the material on one side of the pass.
+func hotStretches(res *engage.Result, d, limit float64) []hotStretch {
+	prof := res.Profile
+	hot := make([]bool, len(prof))
+	win := make([]float64, len(prof))
+	start, lo := -1, 0
+	sum, l := 0.0, 0.0
+	for k, p := range prof {
+		if p.Class != engage.Cut {
+			start = -1
+			continue
+		}
+		if start < 0 {
+			start, lo, sum, l = k, k, 0, 0
+		}
+		sum += p.Step * p.AE / d
+		l += p.Step
+		for lo < k && l-prof[lo].Step >= 1-1e-9 {
+			sum -= prof[lo].Step * prof[lo].AE / d
+			l -= prof[lo].Step
+			lo++
+		}
+		if l > 0 && sum/l > limit {
+			for j := lo; j <= k; j++ {
+				hot[j] = true
+				win[j] = math.Max(win[j], sum/l)
+			}
+		}
+	}
+	var out []hotStretch
+	for k := 0; k < len(prof); {
+		if !hot[k] {
+			k++
+			continue
+		}
+		h := hotStretch{m0: prof[k].Move, m1: prof[k].Move, p0: geom.Pt(prof[k].X, prof[k].Y), s0: prof[k].S}
+		var lat, mag float64
+		for ; k < len(prof) && hot[k]; k++ {
+			p := prof[k]
+			h.m1, h.p1, h.s1 = p.Move, geom.Pt(p.X, p.Y), p.S
+			h.peakAE = math.Max(h.peakAE, p.AE)
+			h.maxWin = math.Max(h.maxWin, win[k])
+			// The middle of the engaged arcs: immersion 0 is the left
+			// side, π/2 the front, π the right (engage, after Altintas).
+			c := math.Cos(0.5 * (p.Entry + p.Exit))
+			lat += p.AE * p.Step * c
+			mag += p.AE * p.Step
+		}
+		if mag <= 0 || math.Abs(lat) < 0.3*mag {
+			// Head-on: an offset pass would meet the same material.
+			continue
+		}
+		h.side = math.Copysign(1, lat)
+		// One extra pass for stretches closer than its lead, on the
+		// same side: the second's pass would leave the path inside the
+		// first.
+		if n := len(out); n > 0 && out[n-1].side == h.side && h.s0-out[n-1].s1 < extraPassLead {
+			o := &out[n-1]
+			o.m1, o.p1, o.s1 = h.m1, h.p1, h.s1
+			o.peakAE, o.maxWin = math.Max(o.peakAE, h.peakAE), math.Max(o.maxWin, h.maxWin)
+			continue
+		}
+		out = append(out, h)
+	}
+	return out
+}
+
+// extraPass returns the extra pass that relieves stretch h of the
+// feature's moves (which start at start): it leaves the path extraPassLead
+// before the stretch, at the point a of move at (split there unless a is
+// its end), and runs to the stretch's end. ok is false where the
+// stretch is not a run of feed moves at one height with the lead before
+// it, or the pass would leave the tool-centre domain (allowed). delta is
+// the offset, mm.
+func extraPass(moves []geom.Move, start geom.Point3, h hotStretch, delta float64, allowed func(geom.Point) bool) (pass []geom.Move, at int, a geom.Point3, split bool, ok bool) {
+	from := func(i int) geom.Point3 {
+		if i == 0 {
+			return start
+		}
+		return moves[i-1].To
+	}
+	z := moves[h.m0].To.Z
+	cuts := func(i int) bool {
+		k := moves[i].Kind
+		return (k == geom.Feed || k == geom.Link) && math.Abs(moves[i].To.Z-z) < 1e-9 && math.Abs(from(i).Z-z) < 1e-9
+	}
+	for i := h.m0; i <= h.m1; i++ {
+		if !cuts(i) {
+			return nil, 0, a, false, false
+		}
+	}
+	// The moves from far enough back to far enough on, as a polyline
+	// with the move of each point.
+	i0, back := h.m0, 0.0
+	for i0 > 0 && back < extraPassLead+1e-9 && cuts(i0-1) {
+		i0--
+		back += geom.MoveLength(from(i0), moves[i0])
+	}
+	i1 := h.m1
+	pts := []geom.Point{from(i0).XY()}
+	idx := []int{i0}
+	var feeds []float64
+	for i := i0; i <= i1; i++ {
+		n := len(pts)
+		pts, feeds = appendMovePoints(pts, feeds, from(i).XY(), moves[i], extraPassStep)
+		for range len(pts) - n {
+			idx = append(idx, i)
+		}
+	}
+	feeds = append([]float64{moves[i0].Feed}, feeds...)
+	// k0 and k1: the points nearest the stretch's ends.
+	nearest := func(q geom.Point, m int) int {
+		best, bd := -1, math.Inf(1)
+		for k, p := range pts {
+			if (idx[k] == m || k+1 < len(pts) && idx[k+1] == m) && p.Dist(q) < bd {
+				best, bd = k, p.Dist(q)
+			}
+		}
+		return best
+	}
+	k0, k1 := nearest(h.p0, h.m0), nearest(h.p1, h.m1)
+	if k0 < 0 || k1 < k0 {
+		return nil, 0, a, false, false
+	}
+	ka, l := k0, 0.0
+	for ka > 0 && l < extraPassLead {
+		l += pts[ka].Dist(pts[ka-1])
+		ka--
+	}
+	if l < extraPassLead-1e-6 {
+		return nil, 0, a, false, false
+	}
+	kb := k1
+	// Point ka lies on move idx[ka+1] (the move of the chord after it):
+	// at its end when the chord is the move's first.
+	at = idx[ka+1]
+	split = ka > 0 && idx[ka] == at
+	a = geom.Point3{X: pts[ka].X, Y: pts[ka].Y, Z: z}
+	// Offset toward the cleared side, bending off over the lead.
+	seg := pts[ka : kb+1]
+	q := make([]geom.Point, len(seg))
+	s := 0.0
+	for k := range seg {
+		if k > 0 {
+			s += seg[k].Dist(seg[k-1])
+		}
+		t := seg[min(k+1, len(seg)-1)].Sub(seg[max(k-1, 0)]).Unit()
+		n := geom.Pt(-t.Y, t.X) // left normal
+		f := math.Min(1, s/extraPassLead)
+		f = f * f * (3 - 2*f) // smoothstep
+		q[k] = seg[k].Add(n.Scale(-h.side * delta * f))
+		if k > 0 && !allowed(q[k]) {
+			return nil, 0, a, false, false
+		}
+	}
+	if len(q) < 3 {
+		return nil, 0, a, false, false
+	}
+	for k := 1; k < len(q); k++ {
+		pass = append(pass, geom.Move{Kind: geom.Feed, To: geom.Point3{X: q[k].X, Y: q[k].Y, Z: z}, Feed: feeds[ka+k]})
+	}
+	for k := len(q) - 2; k >= 0; k-- {
+		pass = append(pass, geom.Move{Kind: geom.Link, To: geom.Point3{X: q[k].X, Y: q[k].Y, Z: z}, Feed: feeds[ka+k+1]})
+	}
+	return pass, at, a, split, true
+}
+
+// appendMovePoints appends the XY polyline of mv, from from, to pts, arcs
+// divided into chords no longer than step, with mv's feed for each point.
+func appendMovePoints(pts []geom.Point, feeds []float64, from geom.Point, mv geom.Move, step float64) ([]geom.Point, []float64) {
+	to := mv.To.XY()
+	if !mv.Arc {
+		n := max(1, int(math.Ceil(from.Dist(to)/step)))
+		for k := 1; k <= n; k++ {
+			pts = append(pts, from.Lerp(to, float64(k)/float64(n)))
+			feeds = append(feeds, mv.Feed)
+		}
+		return pts, feeds
+	}
+	rad := from.Dist(mv.Center)
+	a0 := math.Atan2(from.Y-mv.Center.Y, from.X-mv.Center.X)
+	a1 := math.Atan2(to.Y-mv.Center.Y, to.X-mv.Center.X)
+	sw := a1 - a0
+	if mv.CW {
+		for sw >= 0 {
+			sw -= 2 * math.Pi
+		}
+	} else {
+		for sw <= 0 {
+			sw += 2 * math.Pi
+		}
+	}
+	n := max(1, int(math.Ceil(math.Abs(sw)*rad/step)))
+	for k := 1; k <= n; k++ {
+		a := a0 + sw*float64(k)/float64(n)
+		p := geom.Pt(mv.Center.X+rad*math.Cos(a), mv.Center.Y+rad*math.Sin(a))
+		if k == n {
+			p = to
+		}
+		pts = append(pts, p)
+		feeds = append(feeds, mv.Feed)
+	}
+	return pts, feeds
+}
+
+// extraRepair is one extra pass inserted into a feature's moves: before
+// move at, from the point a on it, which splits the move unless a is the
+// end of the move before.
+type extraRepair struct {
+	at    int
+	a     geom.Point3
+	split bool
+	pass  []geom.Move
+}
+
+// lead returns the moves that take the tool to the repair's point a from
+// the start of move at: the first part of the split move, or nothing.
+func (rp extraRepair) lead(moves []geom.Move) []geom.Move {
+	if !rp.split {
+		return nil
+	}
+	mv := moves[rp.at]
+	mv.To = rp.a
+	return []geom.Move{mv}
+}
+
+// withExtraPasses returns the feature's moves with the passes of reps (in
+// path order; two may split one move, the second beyond the first's point)
+// inserted.
+func withExtraPasses(moves []geom.Move, reps []extraRepair) []geom.Move {
+	out := make([]geom.Move, 0, len(moves))
+	next := 0
+	for _, rp := range reps {
+		out = append(out, moves[next:rp.at]...)
+		out = append(out, rp.lead(moves)...)
+		out = append(out, rp.pass...)
+		next = rp.at
+	}
+	return append(out, moves[next:]...)
+}
+
+// maxWindowIn returns the largest 1 mm moving average of ae/D (as engage's
+// MaxEng takes it, or MaxEngFull when full is set) over the cutting samples
+// of res whose moves lie in [m0, m1].
+func maxWindowIn(res *engage.Result, d float64, m0, m1 int, full bool) float64 {
+	best := 0.0
+	prof := res.Profile
+	start, lo := -1, 0
+	sum, l := 0.0, 0.0
+	for k, p := range prof {
+		if p.Class != engage.Cut {
+			start = -1
+			continue
+		}
+		if start < 0 {
+			start, lo, sum, l = k, k, 0, 0
+		}
+		sum += p.Step * p.AE / d
+		l += p.Step
+		for lo < k && l-prof[lo].Step >= 1-1e-9 {
+			sum -= prof[lo].Step * prof[lo].AE / d
+			l -= prof[lo].Step
+			lo++
+		}
+		if (l >= 1-1e-9 || !full && l > 0) && p.Move >= m0 && p.Move <= m1 {
+			best = math.Max(best, sum/l)
+		}
+	}
+	return best
+}
+
+// extraPassShares are the offsets an extra pass is tried at, as shares of
+// the stretch's peak ae: the material of an overload may be a strip beside
+// the pass (half the peak splits it evenly) or a wedge it runs into at an
+// angle, whose width across the pass is much less than the ae its chord
+// reads.
+var extraPassShares = [...]float64{0.12, 0.25, 0.4, 0.55, 0.7}
+
+// relieve finds the stretches of feature fi's simulation res (its moves
+// from start, simulated on a copy of before) that exceed the repair limit
+// and, in path order on a copy of before, tries an extra pass before each
+// at every offset of extraPassShares (up to the band maximum). Of the
+// offsets that bring the stretch under the limit it keeps the one that
+// cuts least outside the in-band range; if none does, the one that lowers the
+// stretch's largest window most, if any. The repaired feature is simulated
+// again on before; where that gouges deeper or reads a higher maximum than
+// res, the repair is given up. It returns
+// the repaired moves, their simulation and the number of extra passes, or
+// n 0 (and leaves the simulator's material as res left it).
+func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, before *engage.Material, res *engage.Result) (out []geom.Move, rres *engage.Result, n int, err error) {
+	d := s.tool.Diameter
+	limit := s.band[1] + 0.03 - extraPassMargin
+	hs := hotStretches(res, d, limit)
+	if len(hs) == 0 {
+		return nil, nil, 0, nil
+	}
+	allowed, err := s.allowed(fi)
+	if err != nil {
+		return nil, nil, 0, err
+	}
+	from := func(i int) geom.Point3 {
+		if i == 0 {
+			return start
+		}
+		return moves[i-1].To
+	}
+	sim := func(m *engage.Material, at geom.Point3, mv []geom.Move, summary bool) (*engage.Result, error) {
+		if len(mv) == 0 {
+			return nil, nil
+		}
+		return engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: at, Moves: mv}, engage.SimOptions{Band: s.band, SummaryOnly: summary})
+	}
+	// m holds the material as the repaired path leaves it at cur, the
+	// start of move next or a point on it.
+	m := before.Clone()
+	next, cur, lastS := 0, start, math.Inf(-1)
+	var reps []extraRepair
+	for _, h := range hs {
+		if h.s0-extraPassLead <= lastS {
+			continue
+		}
+		// The pass splits the material in two thinner cuts: of the
+		// offsets that hold the limit, the one that keeps most of both
+		// in the band.
+		var best extraRepair
+		bestWin, bestOut := h.maxWin-0.002, math.Inf(1)
+		for _, f := range extraPassShares {
+			delta := math.Min(f*h.peakAE, s.band[1]*d)
+			pass, at, a, split, ok := extraPass(moves, start, h, delta, allowed)
+			if !ok || at < next {
+				break
+			}
+			rp := extraRepair{at: at, a: a, split: split, pass: pass}
+			if at > next {
+				if _, err := sim(m, cur, moves[next:at], true); err != nil {
+					return nil, nil, 0, err
+				}
+				next, cur = at, from(at)
+			}
+			trial := append(append(rp.lead(moves), pass...), moves[at:h.m1+1]...)
+			rt, err := sim(m.Clone(), cur, trial, false)
+			if err != nil {
+				return nil, nil, 0, err
+			}
+			w, oob := maxWindowIn(rt, d, 0, len(trial), false), outOfBand(rt, d, s.band)
+			// Under the limit over full windows: a window at the start of
+			// a run (where the pass first meets the material from the
+			// air) may stay above it if it is lowered.
+			under := maxWindowIn(rt, d, 0, len(trial), true) <= limit && w < h.maxWin
+			switch {
+			case under && (bestWin > limit || oob < bestOut), !under && bestWin > limit && w < bestWin:
+				best, bestWin, bestOut = rp, w, oob
+			}
+		}
+		if best.pass == nil {
+			continue
+		}
+		if _, err := sim(m, cur, append(best.lead(moves), best.pass...), true); err != nil {
+			return nil, nil, 0, err
+		}
+		reps = append(reps, best)
+		cur, lastS = best.a, h.s1
+	}
+	if len(reps) == 0 {
+		return nil, nil, 0, nil
+	}
+	nm := withExtraPasses(moves, reps)
+	mf := before.Clone()
+	r2, err := s.featureOn(ctx, mf, fi, start, nm, false)
+	if err != nil {
+		return nil, nil, 0, err
+	}
+	if sr, so := r2.Summary, res.Summary; sr.MaxGouge > so.MaxGouge+1e-6 || sr.MaxEng > so.MaxEng+1e-9 || sr.MaxEngFull > so.MaxEngFull+1e-9 || floorGouge(sr) > floorGouge(so)+1e-6 {
+		return nil, nil, 0, nil
+	}
+	s.m = mf
+	return nm, r2, len(reps), nil
+}
+
+// bandedInsertRepairs puts the repaired moves of each feature (nil where
+// it has none) into the plan's path, shifting the features' and the
+// operations' indices, and counts the extra passes.
+func bandedInsertRepairs(plan *Plan, repaired [][]geom.Move, extra []int) {
+	changed := false
+	for _, m := range repaired {
+		changed = changed || m != nil
+	}
+	if !changed {
+		return
+	}
+	old := plan.Path.Moves
+	out := make([]geom.Move, 0, len(old))
+	// newIndex maps the old index of a feature's first move to the new.
+	newIndex := map[int]int{}
+	next := 0
+	for fi := range plan.Features {
+		fs := &plan.Features[fi]
+		out = append(out, old[next:fs.First]...)
+		newIndex[fs.First] = len(out)
+		first := len(out)
+		if fi < len(repaired) && repaired[fi] != nil {
+			out = append(out, repaired[fi]...)
+			fs.ExtraPasses = extra[fi]
+		} else {
+			out = append(out, old[fs.First:fs.End]...)
+		}
+		next = fs.End
+		fs.First, fs.End = first, len(out)
+	}
+	newIndex[next] = len(out)
+	out = append(out, old[next:]...)
+	for i := range plan.Path.Ops {
+		if k, ok := newIndex[plan.Path.Ops[i].First]; ok {
+			plan.Path.Ops[i].First = k
+		}
+	}
+	plan.Path.Moves = out
+}
+
+// outOfBand returns the cutting length of res with ae/D outside the
+// in-band range [0.8·band min, 1.1·band max] (the in-band share).
+func outOfBand(res *engage.Result, d float64, band [2]float64) float64 {
+	l := 0.0
+	for _, p := range res.Profile {
+		if a := p.AE / d; p.Class == engage.Cut && (a < 0.8*band[0] || a > 1.1*band[1]) {
+			l += p.Step
+		}
+	}
+	return l
+}
+
+// floorGouge returns the deepest cut below the floor of any target.
+func floorGouge(sum engage.Summary) float64 {
+	g := 0.0
+	for _, t := range sum.Targets {
+		g = math.Max(g, t.FloorGouge)
+	}
+	return g
+}
+
+// allowed returns whether a tool-centre point lies in feature fi's domain
+// (bandedDomain: the free space the planner's passes keep to, walls of
+// other features' floors included) or within 1 µm of its boundary, and
+// clear of keep by the tool radius.
+func (s *bandedSim) allowed(fi int) (func(geom.Point) bool, error) {
+	if s.domains == nil {
+		s.domains = map[int]geom.Shape{}
+	}
+	dom, ok := s.domains[fi]
+	if !ok {
+		st, err := bandedSetup(s.job, BandedOptions{})
+		if err != nil {
+			return nil, err
+		}
+		comps, _, err := bandedDomain(s.job, s.job.Features[fi], st, DefaultTolerance)
+		if err != nil {
+			return nil, err
+		}
+		for _, c := range comps {
+			dom = append(dom, c.c...)
+		}
+		s.domains[fi] = dom
+	}
+	r := 0.5 * s.tool.Diameter
+	return func(q geom.Point) bool {
+		if !dom.Contains(q) && dom.DistanceToBoundary(q) > 1e-3 {
+			return false
+		}
+		return s.keep == nil || !s.keep.Contains(q) && s.keep.DistanceToBoundary(q) >= r-1e-6
+	}, nil
+}
+
+// bandedVerified is the verification of one feature: its moves with the
+// extra passes (nil where there are none) and how many, and, from the
+// simulation of those moves, the worst chips the feed repair holds and the
+// slotting to warn of.
+type bandedVerified struct {
+	moves []geom.Move
+	extra int
+	worst map[int]float64
+	slot  bandedSlotting
+}
+
+// verify simulates feature fi's moves (from start) on the material the
+// features before it left, relieves them with extra passes in up to
+// extraPassRounds rounds (where one pass leaves a stretch above the limit,
+// a strip twice the step, the next round relieves what is left) and
+// leaves the material as the repaired moves do.
+func (s *bandedSim) verify(ctx context.Context, fi int, start geom.Point3, moves []geom.Move) (bandedVerified, error) {
+	var v bandedVerified
+	before := s.m.Clone()
+	res, err := s.feature(ctx, fi, start, moves, false)
+	if err != nil {
+		return v, err
+	}
+	for range extraPassRounds {
+		nm, rres, n, err := s.relieve(ctx, fi, start, moves, before, res)
+		if err != nil {
+			return v, err
+		}
+		if n == 0 {
+			break
+		}
+		moves, res = nm, rres
+		v.moves, v.extra = nm, v.extra+n
+	}
+	v.worst = bandedWorstChips(s.job, res)
+	v.slot = bandedFindSlotting(s.job, res)
+	return v, nil
+}

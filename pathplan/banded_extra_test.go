@@ -1,0 +1,125 @@
+package pathplan
+
+import (
+	"context"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/chipband/chipband/engage"
+	"github.com/chipband/chipband/geom"
+)
+
+// stripJob is a stock whose edge rises from y = 9.04 at x = 0 to y = 10 at
+// x = 10 and stays there, with a feature that takes all of it above
+// y = 9.04: a strip 0.96 mm wide that a cut along it meets gradually (a
+// 6 mm tool, band 5–10 %).
+func stripJob(t *testing.T) *Job {
+	t.Helper()
+	src := `{"name":"strip","stock":{"outline":"POLYGON ((0 0, 100 0, 100 10, 10 10, 0 9.04, 0 0))","top":0},
+"features":[{"name":"edge","region":"POLYGON ((-20 9.04, 120 9.04, 120 30, -20 30, -20 9.04))","depth":2}],
+"tool":{"diameter":6,"flute_length":20,"flutes":3},
+"cut":{"band":[0.05,0.1],"allowance":0,"spindle_rpm":16000,"chip_load":0.03,"layered":{"stepover":0.5,"stepdown":1}},
+"clearance":5}`
+	j, err := ReadJob(strings.NewReader(src))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return j
+}
+
+// TestExtraPassSplitsStrip: a straight climb cut beside a strip 0.96 mm
+// wide (ae/D 0.16, above the 10 % band) is relieved by one extra pass that
+// splits the strip between itself and the cut. Elementary geometry: with
+// the extra pass δ to the cleared side of the cut, it takes ae − δ and the
+// cut δ, and together they remove what the cut alone would have.
+func TestExtraPassSplitsStrip(t *testing.T) {
+	ctx := context.Background()
+	job := stripJob(t)
+	const ae, y = 0.96, 13 - 0.96 // tool edge at y = 10 − ae
+	start := geom.Point3{X: -10, Y: y, Z: -2}
+	moves := []geom.Move{
+		{Kind: geom.Feed, To: geom.Point3{X: 110, Y: y, Z: -2}, Feed: 2000},
+		{Kind: geom.Feed, To: geom.Point3{X: 110, Y: 20, Z: -2}, Feed: 2000},
+	}
+	sim, err := newBandedSim(job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	before := sim.m.Clone()
+	res, err := sim.feature(ctx, 0, start, moves, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The set-up reads what it should: ae/D 0.16 along the cut.
+	if got := res.Summary.MaxEngFull; math.Abs(got-ae/6) > 0.01 {
+		t.Fatalf("the cut reads %.3f over 1 mm, want %.3f", got, ae/6)
+	}
+	out, rres, n, err := sim.relieve(ctx, 0, start, moves, before, res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n != 1 {
+		t.Fatalf("%d extra passes, want 1", n)
+	}
+	// The issue's limit: band maximum + 0.03 as a 1 mm moving average.
+	if got := rres.Summary.MaxEng; got > 0.13 {
+		t.Errorf("repaired maximum %.3f > 0.13", got)
+	}
+	if d := math.Abs(rres.Summary.Volume-res.Summary.Volume) / res.Summary.Volume; d > 0.01 {
+		t.Errorf("the repaired path removes %.1f %% more or less than the cut", 100*d)
+	}
+	// The pass's offset δ in the middle of the strip, and the split there.
+	var delta float64
+	for _, mv := range out {
+		if mv.Kind == geom.Feed && math.Abs(mv.To.X-50) < 0.15 && mv.To.Y > y+1e-6 {
+			delta = mv.To.Y - y
+		}
+	}
+	if delta <= 0 {
+		t.Fatal("no extra pass beside the cut at x = 50")
+	}
+	var onPass, onCut float64
+	for _, p := range rres.Profile {
+		if p.Class != engage.Cut || math.Abs(p.X-50) > 0.1 {
+			continue
+		}
+		if math.Abs(p.Y-y) < 1e-6 {
+			onCut = p.AE
+		} else if math.Abs(p.Y-y-delta) < 1e-6 {
+			onPass = p.AE
+		}
+	}
+	t.Logf("δ %.3f mm: extra pass ae/D %.3f, cut %.3f; repaired maximum %.3f (was %.3f)", delta, onPass/6, onCut/6, rres.Summary.MaxEng, res.Summary.MaxEng)
+	if math.Abs(onPass-(ae-delta)) > 0.05 || math.Abs(onCut-delta) > 0.05 {
+		t.Errorf("δ %.3f mm: extra pass takes %.3f mm (want %.3f), the cut %.3f mm (want %.3f)", delta, onPass, ae-delta, onCut, delta)
+	}
+	// Both within the in-band range [0.8·min, 1.1·max] there.
+	for _, a := range []float64{onPass, onCut} {
+		if a/6 < 0.04 || a/6 > 0.11 {
+			t.Errorf("ae/D %.3f outside the in-band range", a/6)
+		}
+	}
+}
+
+// TestBandedInsertRepairs: repaired moves put into a plan shift the
+// features and operations after them.
+func TestBandedInsertRepairs(t *testing.T) {
+	mv := func(x float64) geom.Move { return geom.Move{Kind: geom.Feed, To: geom.Point3{X: x}} }
+	plan := &Plan{Path: geom.Toolpath{
+		Moves: []geom.Move{mv(0), mv(1), mv(2), mv(3), mv(4), mv(5)},
+		Ops:   []geom.Operation{{Name: "a", First: 0}, {Name: "b", First: 3}},
+	}, Features: []FeatureSummary{{Name: "a", First: 0, End: 3}, {Name: "b", First: 3, End: 6}}}
+	rep := []geom.Move{mv(0), mv(10), mv(11), mv(1), mv(2)}
+	bandedInsertRepairs(plan, [][]geom.Move{rep, nil}, []int{1, 0})
+	if len(plan.Path.Moves) != 8 {
+		t.Fatalf("%d moves, want 8", len(plan.Path.Moves))
+	}
+	a, b := plan.Features[0], plan.Features[1]
+	if a.First != 0 || a.End != 5 || b.First != 5 || b.End != 8 || a.ExtraPasses != 1 || b.ExtraPasses != 0 {
+		t.Errorf("features %+v %+v", a, b)
+	}
+	if plan.Path.Ops[1].First != 5 || plan.Path.Moves[5].To.X != 3 {
+		t.Errorf("operation b starts at %d (move x %.0f), want 5 (x 3)", plan.Path.Ops[1].First, plan.Path.Moves[plan.Path.Ops[1].First].To.X)
+	}
+}
