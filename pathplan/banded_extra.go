@@ -64,30 +64,14 @@ func hotStretches(res *engage.Result, d, limit float64) []hotStretch {
 	prof := res.Profile
 	hot := make([]bool, len(prof))
 	win := make([]float64, len(prof))
-	start, lo := -1, 0
-	sum, l := 0.0, 0.0
-	for k, p := range prof {
-		if p.Class != engage.Cut {
-			start = -1
-			continue
-		}
-		if start < 0 {
-			start, lo, sum, l = k, k, 0, 0
-		}
-		sum += p.Step * p.AE / d
-		l += p.Step
-		for lo < k && l-prof[lo].Step >= 1-1e-9 {
-			sum -= prof[lo].Step * prof[lo].AE / d
-			l -= prof[lo].Step
-			lo++
-		}
-		if l > 0 && sum/l > limit {
+	movingAverages(prof, d, func(lo, k int, avg, _ float64) {
+		if avg > limit {
 			for j := lo; j <= k; j++ {
 				hot[j] = true
-				win[j] = math.Max(win[j], sum/l)
+				win[j] = math.Max(win[j], avg)
 			}
 		}
-	}
+	})
 	var out []hotStretch
 	for k := 0; k < len(prof); {
 		if !hot[k] {
@@ -305,16 +289,28 @@ func withExtraPasses(moves []geom.Move, reps []extraRepair) []geom.Move {
 // of res whose moves lie in [m0, m1].
 func maxWindowIn(res *engage.Result, d float64, m0, m1 int, full bool) float64 {
 	best := 0.0
-	prof := res.Profile
-	start, lo := -1, 0
+	movingAverages(res.Profile, d, func(_, k int, avg, l float64) {
+		if m := res.Profile[k].Move; (l >= 1-1e-9 || !full) && m >= m0 && m <= m1 {
+			best = math.Max(best, avg)
+		}
+	})
+	return best
+}
+
+// movingAverages calls fn for every cutting sample k of prof with the 1 mm
+// moving average of ae/D that ends at it, as engage's MaxEng takes it: over
+// the consecutive cutting samples lo..k, trailing, at most 1 mm long (l, mm)
+// and shorter at the start of a run.
+func movingAverages(prof []engage.Sample, d float64, fn func(lo, k int, avg, l float64)) {
+	run, lo := false, 0
 	sum, l := 0.0, 0.0
 	for k, p := range prof {
 		if p.Class != engage.Cut {
-			start = -1
+			run = false
 			continue
 		}
-		if start < 0 {
-			start, lo, sum, l = k, k, 0, 0
+		if !run {
+			run, lo, sum, l = true, k, 0, 0
 		}
 		sum += p.Step * p.AE / d
 		l += p.Step
@@ -323,11 +319,10 @@ func maxWindowIn(res *engage.Result, d float64, m0, m1 int, full bool) float64 {
 			l -= prof[lo].Step
 			lo++
 		}
-		if (l >= 1-1e-9 || !full && l > 0) && p.Move >= m0 && p.Move <= m1 {
-			best = math.Max(best, sum/l)
+		if l > 0 {
+			fn(lo, k, sum/l, l)
 		}
 	}
-	return best
 }
 
 // extraPassShares are the offsets an extra pass is tried at, as shares of
