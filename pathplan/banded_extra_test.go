@@ -55,7 +55,7 @@ func TestExtraPassSplitsStrip(t *testing.T) {
 	if got := res.Summary.MaxEngFull; math.Abs(got-ae/6) > 0.01 {
 		t.Fatalf("the cut reads %.3f over 1 mm, want %.3f", got, ae/6)
 	}
-	out, rres, n, err := sim.relieve(ctx, 0, start, moves, before, res)
+	out, rres, n, _, err := sim.relieve(ctx, 0, start, moves, before, res)
 	if err != nil {
 		t.Fatal(err)
 	}
