@@ -565,3 +565,41 @@ func (m *Material) Residual(region geom.Shape, floor, tol float64) (Residual, er
 	}
 	return res, nil
 }
+
+// A Patch is a copy of the cells of a Material over a rectangle, which
+// Restore puts back: an undo for trial cuts that stay inside it, cheaper
+// than a Clone of the whole grid.
+type Patch struct {
+	win   window
+	cells []cell
+}
+
+// Save returns the cells of m over r grown by pad, mm. A cut changes the
+// cells within the tool radius of its path and within the exact-distance
+// band beyond, so a Patch of the path's bounds grown by the radius plus
+// BandWidth holds all it changes.
+func (m *Material) Save(r geom.Rect, pad float64) Patch {
+	win, ok := m.window(r, pad)
+	if !ok {
+		return Patch{}
+	}
+	p := Patch{win: win, cells: make([]cell, 0, win.nx*win.ny)}
+	for j := win.j0; j < win.j0+win.ny; j++ {
+		row := j*m.nx + win.i0
+		p.cells = append(p.cells, m.c[row:row+win.nx]...)
+	}
+	return p
+}
+
+// Restore puts the cells of p back into m, the Material (or a clone of the
+// Material) p was saved from.
+func (m *Material) Restore(p Patch) {
+	for j := 0; j < p.win.ny; j++ {
+		row := (p.win.j0+j)*m.nx + p.win.i0
+		copy(m.c[row:row+p.win.nx], p.cells[j*p.win.nx:(j+1)*p.win.nx])
+	}
+}
+
+// BandWidth returns the width, mm, of the exact-distance band the
+// material keeps around its boundaries (see Save).
+func (m *Material) BandWidth() float64 { return float64(m.band) }

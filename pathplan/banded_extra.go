@@ -423,7 +423,9 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 				next, cur = at, from(at)
 			}
 			trial := append(append(rp.lead(moves), pass...), moves[at:h.m1+1]...)
-			rt, err := engage.Simulate(ctx, m.Clone(), s.tool, &geom.Toolpath{Start: cur, Moves: trial}, engage.SimOptions{Band: s.band})
+			undo := m.Save(pathBounds(cur, trial), 0.5*d+m.BandWidth()+m.CellSize())
+			rt, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: cur, Moves: trial}, engage.SimOptions{Band: s.band})
+			m.Restore(undo)
 			if err != nil {
 				return nil, nil, 0, false, err
 			}
@@ -591,4 +593,20 @@ func (s *bandedSim) verify(ctx context.Context, fi int, start geom.Point3, moves
 	v.worst = bandedWorstChips(s.job, res)
 	v.slot = bandedFindSlotting(s.job, res)
 	return v, nil
+}
+
+// pathBounds returns the XY bounds of the moves from start, arcs by their
+// whole circle.
+func pathBounds(start geom.Point3, moves []geom.Move) geom.Rect {
+	r := geom.Rect{Min: start.XY(), Max: start.XY()}
+	from := start.XY()
+	for _, mv := range moves {
+		r = r.Extend(mv.To.XY())
+		if mv.Arc {
+			rad := from.Dist(mv.Center)
+			r = r.Extend(geom.Pt(mv.Center.X-rad, mv.Center.Y-rad)).Extend(geom.Pt(mv.Center.X+rad, mv.Center.Y+rad))
+		}
+		from = mv.To.XY()
+	}
+	return r
 }
