@@ -349,7 +349,7 @@ var extraPassShares = [...]float64{0.12, 0.25, 0.4, 0.55, 0.7}
 // of extra passes, or n 0 (and leaves the simulator's material as res left
 // it); again reports whether a stretch was relieved but not brought under
 // the limit, which another round may finish.
-func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, before *engage.Material, res *engage.Result) (out []geom.Move, rres *engage.Result, n int, again bool, err error) {
+func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, before *engage.Material, res *engage.Result) (repaired []geom.Move, rres *engage.Result, n int, again bool, err error) {
 	d := s.tool.Diameter
 	limit := s.band[1] + 0.03 - extraPassMargin
 	hs := hotStretches(res, d, limit)

@@ -92,11 +92,6 @@ func newBandedSim(job *Job) (*bandedSim, error) {
 // feature simulates the moves of feature fi, from start, on the material
 // the features simulated before it left.
 func (s *bandedSim) feature(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, summaryOnly bool) (*engage.Result, error) {
-	return s.featureOn(ctx, s.m, fi, start, moves, summaryOnly)
-}
-
-// featureOn is feature on material m.
-func (s *bandedSim) featureOn(ctx context.Context, m *engage.Material, fi int, start geom.Point3, moves []geom.Move, summaryOnly bool) (*engage.Result, error) {
 	job := s.job
 	tp := &geom.Toolpath{Start: start, Moves: moves}
 	f := job.Features[fi]
@@ -108,7 +103,7 @@ func (s *bandedSim) featureOn(ctx context.Context, m *engage.Material, fi int, s
 	if reach, err := bandedReachable(job, f, tgt); err == nil {
 		targets = append(targets, engage.Target{Name: f.Name + " (reachable)", Region: reach, Floor: job.Stock.Top - f.Depth})
 	}
-	res, err := engage.Simulate(ctx, m, s.tool, tp, engage.SimOptions{
+	res, err := engage.Simulate(ctx, s.m, s.tool, tp, engage.SimOptions{
 		Band:        s.band,
 		SpindleRPM:  job.Cut.SpindleRPM,
 		Keep:        s.keep,
