@@ -114,14 +114,24 @@ func hotStretches(res *engage.Result, d, limit float64) []hotStretch {
 	return out
 }
 
-// extraPass returns the extra pass that relieves stretch h of the
-// feature's moves (which start at start): it leaves the path extraPassLead
-// before the stretch, at the point a of move at (split there unless a is
-// its end), and runs to the stretch's end. ok is false where the
+// extraPassPath is where an extra pass runs before it is offset: the
+// points seg of the path from the point a, extraPassLead before a stretch,
+// to the stretch's end, with the feed of each, at height z. a lies on move
+// at, which it splits unless it is that move's start.
+type extraPassPath struct {
+	seg   []geom.Point
+	feeds []float64
+	z     float64
+	at    int
+	a     geom.Point3
+	split bool
+}
+
+// extraPassOn returns the path an extra pass relieving stretch h of the
+// feature's moves (which start at start) follows, or ok false where the
 // stretch is not a run of feed moves at one height with the lead before
-// it, or the pass would leave the tool-centre domain (allowed). delta is
-// the offset, mm.
-func extraPass(moves []geom.Move, start geom.Point3, h hotStretch, delta float64, allowed func(geom.Point) bool) (pass []geom.Move, at int, a geom.Point3, split bool, ok bool) {
+// it.
+func extraPassOn(moves []geom.Move, start geom.Point3, h hotStretch) (p extraPassPath, ok bool) {
 	from := func(i int) geom.Point3 {
 		if i == 0 {
 			return start
@@ -135,28 +145,26 @@ func extraPass(moves []geom.Move, start geom.Point3, h hotStretch, delta float64
 	}
 	for i := h.m0; i <= h.m1; i++ {
 		if !cuts(i) {
-			return nil, 0, a, false, false
+			return p, false
 		}
 	}
-	// The moves from far enough back to far enough on, as a polyline
+	// The moves from far enough back to the stretch's end, as a polyline
 	// with the move of each point.
 	i0, back := h.m0, 0.0
 	for i0 > 0 && back < extraPassLead+1e-9 && cuts(i0-1) {
 		i0--
 		back += geom.MoveLength(from(i0), moves[i0])
 	}
-	i1 := h.m1
 	pts := []geom.Point{from(i0).XY()}
 	idx := []int{i0}
-	var feeds []float64
-	for i := i0; i <= i1; i++ {
+	feeds := []float64{moves[i0].Feed}
+	for i := i0; i <= h.m1; i++ {
 		n := len(pts)
 		pts, feeds = appendMovePoints(pts, feeds, from(i).XY(), moves[i], extraPassStep)
 		for range len(pts) - n {
 			idx = append(idx, i)
 		}
 	}
-	feeds = append([]float64{moves[i0].Feed}, feeds...)
 	// k0 and k1: the points nearest the stretch's ends.
 	nearest := func(q geom.Point, m int) int {
 		best, bd := -1, math.Inf(1)
@@ -169,24 +177,30 @@ func extraPass(moves []geom.Move, start geom.Point3, h hotStretch, delta float64
 	}
 	k0, k1 := nearest(h.p0, h.m0), nearest(h.p1, h.m1)
 	if k0 < 0 || k1 < k0 {
-		return nil, 0, a, false, false
+		return p, false
 	}
 	ka, l := k0, 0.0
 	for ka > 0 && l < extraPassLead {
 		l += pts[ka].Dist(pts[ka-1])
 		ka--
 	}
-	if l < extraPassLead-1e-6 {
-		return nil, 0, a, false, false
+	if l < extraPassLead-1e-6 || k1-ka < 2 {
+		return p, false
 	}
-	kb := k1
 	// Point ka lies on move idx[ka+1] (the move of the chord after it):
 	// at its end when the chord is the move's first.
-	at = idx[ka+1]
-	split = ka > 0 && idx[ka] == at
-	a = geom.Point3{X: pts[ka].X, Y: pts[ka].Y, Z: z}
-	// Offset toward the cleared side, bending off over the lead.
-	seg := pts[ka : kb+1]
+	p = extraPassPath{seg: pts[ka : k1+1], feeds: feeds[ka : k1+1], z: z, at: idx[ka+1]}
+	p.split = ka > 0 && idx[ka] == p.at
+	p.a = geom.Point3{X: pts[ka].X, Y: pts[ka].Y, Z: z}
+	return p, true
+}
+
+// pass returns the extra pass along p offset by delta, mm, away from side
+// (the side the material lies on, +1 left), bending off over the lead, and
+// back along itself; ok is false where it would leave the tool-centre
+// domain (allowed).
+func (p extraPassPath) pass(side, delta float64, allowed func(geom.Point) bool) (pass []geom.Move, ok bool) {
+	seg := p.seg
 	q := make([]geom.Point, len(seg))
 	s := 0.0
 	for k := range seg {
@@ -197,21 +211,18 @@ func extraPass(moves []geom.Move, start geom.Point3, h hotStretch, delta float64
 		n := geom.Pt(-t.Y, t.X) // left normal
 		f := math.Min(1, s/extraPassLead)
 		f = f * f * (3 - 2*f) // smoothstep
-		q[k] = seg[k].Add(n.Scale(-h.side * delta * f))
+		q[k] = seg[k].Add(n.Scale(-side * delta * f))
 		if k > 0 && !allowed(q[k]) {
-			return nil, 0, a, false, false
+			return nil, false
 		}
 	}
-	if len(q) < 3 {
-		return nil, 0, a, false, false
-	}
 	for k := 1; k < len(q); k++ {
-		pass = append(pass, geom.Move{Kind: geom.Feed, To: geom.Point3{X: q[k].X, Y: q[k].Y, Z: z}, Feed: feeds[ka+k]})
+		pass = append(pass, geom.Move{Kind: geom.Feed, To: geom.Point3{X: q[k].X, Y: q[k].Y, Z: p.z}, Feed: p.feeds[k]})
 	}
 	for k := len(q) - 2; k >= 0; k-- {
-		pass = append(pass, geom.Move{Kind: geom.Link, To: geom.Point3{X: q[k].X, Y: q[k].Y, Z: z}, Feed: feeds[ka+k+1]})
+		pass = append(pass, geom.Move{Kind: geom.Link, To: geom.Point3{X: q[k].X, Y: q[k].Y, Z: p.z}, Feed: p.feeds[k+1]})
 	}
-	return pass, at, a, split, true
+	return pass, true
 }
 
 // appendMovePoints appends the XY polyline of mv, from from, to pts, arcs
@@ -228,16 +239,9 @@ func appendMovePoints(pts []geom.Point, feeds []float64, from geom.Point, mv geo
 	}
 	rad := from.Dist(mv.Center)
 	a0 := math.Atan2(from.Y-mv.Center.Y, from.X-mv.Center.X)
-	a1 := math.Atan2(to.Y-mv.Center.Y, to.X-mv.Center.X)
-	sw := a1 - a0
+	sw := geom.ArcSweep(from, to, mv.Center, mv.CW)
 	if mv.CW {
-		for sw >= 0 {
-			sw -= 2 * math.Pi
-		}
-	} else {
-		for sw <= 0 {
-			sw += 2 * math.Pi
-		}
+		sw = -sw
 	}
 	n := max(1, int(math.Ceil(math.Abs(sw)*rad/step)))
 	for k := 1; k <= n; k++ {
@@ -409,13 +413,17 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 		// in the band.
 		var best extraRepair
 		bestWin, bestOut := h.maxWin-0.002, math.Inf(1)
+		path, ok := extraPassOn(moves, start, h)
+		if !ok || path.at < next {
+			continue
+		}
+		at := path.at
 		for _, f := range extraPassShares {
-			delta := math.Min(f*h.peakAE, s.band[1]*d)
-			pass, at, a, split, ok := extraPass(moves, start, h, delta, allowed)
-			if !ok || at < next {
+			pass, ok := path.pass(h.side, math.Min(f*h.peakAE, s.band[1]*d), allowed)
+			if !ok {
 				break
 			}
-			rp := extraRepair{at: at, a: a, split: split, pass: pass}
+			rp := extraRepair{at: at, a: path.a, split: path.split, pass: pass}
 			if at > next {
 				if err := lay(cur, moves[next:at]); err != nil {
 					return nil, nil, 0, false, err

@@ -3,7 +3,6 @@ package pathplan
 import (
 	"context"
 	"math"
-	"strings"
 	"testing"
 
 	"github.com/chipband/chipband/engage"
@@ -16,16 +15,7 @@ import (
 // 6 mm tool, band 5–10 %).
 func stripJob(t *testing.T) *Job {
 	t.Helper()
-	src := `{"name":"strip","stock":{"outline":"POLYGON ((0 0, 100 0, 100 10, 10 10, 0 9.04, 0 0))","top":0},
-"features":[{"name":"edge","region":"POLYGON ((-20 9.04, 120 9.04, 120 30, -20 30, -20 9.04))","depth":2}],
-"tool":{"diameter":6,"flute_length":20,"flutes":3},
-"cut":{"band":[0.05,0.1],"allowance":0,"spindle_rpm":16000,"chip_load":0.03,"layered":{"stepover":0.5,"stepdown":1}},
-"clearance":5}`
-	j, err := ReadJob(strings.NewReader(src))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return j
+	return d6Job(t, "edge", "POLYGON ((0 0, 100 0, 100 10, 10 10, 0 9.04, 0 0))", "POLYGON ((-20 9.04, 120 9.04, 120 30, -20 30, -20 9.04))", 2, "")
 }
 
 // TestExtraPassSplitsStrip: a straight climb cut beside a strip 0.96 mm

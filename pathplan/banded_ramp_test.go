@@ -23,11 +23,19 @@ func keywayJob(t *testing.T, length, width, ang float64) *Job {
 	for _, q := range [][2]float64{{-length / 2, -width / 2}, {length / 2, -width / 2}, {length / 2, width / 2}, {-length / 2, width / 2}, {-length / 2, -width / 2}} {
 		pts = append(pts, fmt.Sprintf("%.6f %.6f", 40+q[0]*c-q[1]*s, 30+q[0]*s+q[1]*c))
 	}
-	src := `{"name":"keyway","stock":{"outline":"POLYGON ((0 0, 80 0, 80 60, 0 60, 0 0))","top":0},
-"features":[{"name":"keyway","region":"POLYGON ((` + strings.Join(pts, ", ") + `))","depth":4}],
+	return d6Job(t, "keyway", "POLYGON ((0 0, 80 0, 80 60, 0 60, 0 0))", "POLYGON (("+strings.Join(pts, ", ")+"))", 4, `"ramp_angle":2,`)
+}
+
+// d6Job is a one-feature job for a 6 mm three-flute end mill, band 5–10 %,
+// 16000 rpm and 0.03 mm chip load: stock and region in WKT, the depth, and
+// more cut-data keys (JSON members, each followed by a comma).
+func d6Job(t *testing.T, name, stock, region string, depth float64, cut string) *Job {
+	t.Helper()
+	src := fmt.Sprintf(`{"name":%q,"stock":{"outline":%q,"top":0},
+"features":[{"name":%q,"region":%q,"depth":%g}],
 "tool":{"diameter":6,"flute_length":20,"flutes":3},
-"cut":{"band":[0.05,0.1],"allowance":0,"spindle_rpm":16000,"chip_load":0.03,"ramp_angle":2,"layered":{"stepover":0.5,"stepdown":1}},
-"clearance":5}`
+"cut":{"band":[0.05,0.1],"allowance":0,"spindle_rpm":16000,"chip_load":0.03,%s"layered":{"stepover":0.5,"stepdown":1}},
+"clearance":5}`, name, stock, name, region, depth, cut)
 	j, err := ReadJob(strings.NewReader(src))
 	if err != nil {
 		t.Fatal(err)
