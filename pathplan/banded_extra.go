@@ -2,6 +2,7 @@ package pathplan
 
 import (
 	"context"
+	"fmt"
 	"math"
 
 	"github.com/chipband/chipband/engage"
@@ -23,6 +24,13 @@ import (
 // few offsets (extraPassShares); a stretch no offset improves keeps its
 // overload. The feed repair (banded_repair.go) comes after it, on the
 // moves as repaired.
+//
+// The feature is simulated once, in chunks of extraChunk along its path,
+// with a Patch of the cells under each (a trail). The stretches are then
+// tried from the last to the first, the material taken back along the
+// trail to each; because an extra pass leaves the material its stretch
+// would have, the trials need no pass before them, and the repaired
+// path's simulation is put together from the feature's and the trials'.
 
 // extraPassMargin is how far below the limit (band maximum + 0.03
 // as a 1 mm moving average of ae/D) a stretch is already relieved, so that
@@ -38,9 +46,11 @@ const extraPassLead = 1.0
 // extraPassRounds is how many times the verification looks for stretches
 // to relieve, each round on the path the last one repaired; a round runs
 // only where the last relieved a stretch without bringing it under the
-// limit. On the demo job the second round takes the verified plan from
-// 5.3 to 7.0 s and the comb pocket's 1 mm maximum over full windows from
-// 0.170 to 0.138 (the sign job's from 0.147 to 0.135).
+// limit. On the demo job the second round took the comb pocket's 1 mm
+// maximum over full windows from 0.170 to 0.138 (the sign job's from
+// 0.147 to 0.135), when each round laid the whole path again (5.3 → 7.0 s
+// for the verified demo plan; going back along the trail, both rounds
+// take about 3.4 s).
 const extraPassRounds = 2
 
 // extraPassStep is the longest chord, mm, of the extra pass's polyline.
@@ -277,21 +287,6 @@ func (rp extraRepair) lead(moves []geom.Move) []geom.Move {
 	return []geom.Move{mv}
 }
 
-// withExtraPasses returns the feature's moves with the passes of reps (in
-// path order; two may split one move, the second beyond the first's point)
-// inserted.
-func withExtraPasses(moves []geom.Move, reps []extraRepair) []geom.Move {
-	out := make([]geom.Move, 0, len(moves))
-	next := 0
-	for _, rp := range reps {
-		out = append(out, moves[next:rp.at]...)
-		out = append(out, rp.lead(moves)...)
-		out = append(out, rp.pass...)
-		next = rp.at
-	}
-	return append(out, moves[next:]...)
-}
-
 // maxWindowIn returns the largest 1 mm moving average of ae/D (as engage's
 // MaxEng takes it, or MaxEngFull when full is set) over the cutting samples
 // of res whose moves lie in [m0, m1].
@@ -340,29 +335,208 @@ func movingAverages(prof []engage.Sample, d float64, fn func(lo, k int, avg, l f
 // reads.
 var extraPassShares = [...]float64{0.12, 0.25, 0.4, 0.55, 0.7}
 
-// relieve finds the stretches of feature fi's simulation res (its moves
-// from start, simulated on a copy of before) that exceed the repair limit
-// and, in path order on a copy of before, tries an extra pass before each
-// at every offset of extraPassShares (up to the band maximum). Of the
+// extraChunk is the length of path, mm, the verification lays on the
+// material at a time, keeping a Patch of the cells under each chunk so
+// that it can take the material back to the start of any chunk.
+const extraChunk = 10.0
+
+// trail is a feature's moves as laid on the material in chunks: the first
+// move of each chunk (and, last, the number of moves) and the cells the
+// chunk changed, as they were before it (restored last first).
+type trail struct {
+	first   []int
+	patches [][]engage.Patch
+}
+
+// after returns the trail of the moves repaired by kept (spliceRepairs):
+// the chunks start at the same moves, those that start inside a relieved
+// stretch joined to the chunk before.
+func (tr trail) after(kept []extraCandidate) trail {
+	var out trail
+	k, shift := 0, 0
+	for c, f := range tr.first {
+		for k < len(kept) && kept[k].m1 < f {
+			shift += len(kept[k].moves) - (kept[k].m1 + 1 - kept[k].at)
+			k++
+		}
+		if k < len(kept) && kept[k].at < f && c > 0 && c < len(tr.first)-1 {
+			n := len(out.patches) - 1
+			out.patches[n] = append(out.patches[n], tr.patches[c]...)
+			continue
+		}
+		out.first = append(out.first, f+shift)
+		if c < len(tr.patches) {
+			out.patches = append(out.patches, append([]engage.Patch(nil), tr.patches[c]...))
+		}
+	}
+	return out
+}
+
+// simOptions are the simulation options of the verification: the band,
+// the spindle speed (for the chips the feed repair holds) and keep.
+func (s *bandedSim) simOptions() engage.SimOptions {
+	return engage.SimOptions{Band: s.band, SpindleRPM: s.job.Cut.SpindleRPM, Keep: s.keep}
+}
+
+// patchPad is the margin, mm, around a path's bounds that a Patch of the
+// material must cover to hold all a cut along the path changes.
+func (s *bandedSim) patchPad(m *engage.Material) float64 {
+	return 0.5*s.tool.Diameter + m.BandWidth() + m.CellSize()
+}
+
+// layTrail simulates feature fi's moves, from start, on the material the
+// features before it left, chunk by chunk, and returns the simulation
+// (one profile, moves numbered in the feature, its maxima as engage's
+// MaxEng and MaxEngFull take them) and the trail to go back along.
+func (s *bandedSim) layTrail(ctx context.Context, fi int, start geom.Point3, moves []geom.Move) (*engage.Result, trail, error) {
+	var tr trail
+	var chunks []*engage.Result
+	pad := s.patchPad(s.m)
+	at, samples := start, 0
+	for i := 0; i < len(moves); {
+		j, l := i, 0.0
+		for from := at; j < len(moves) && (j == i || l < extraChunk); j++ {
+			l += geom.MoveLength(from, moves[j])
+			from = moves[j].To
+		}
+		chunk := moves[i:j]
+		tr.first = append(tr.first, i)
+		tr.patches = append(tr.patches, []engage.Patch{s.m.Save(pathBounds(at, chunk), pad)})
+		r, err := engage.Simulate(ctx, s.m, s.tool, &geom.Toolpath{Start: at, Moves: chunk}, s.simOptions())
+		if err != nil {
+			return nil, tr, fmt.Errorf("simulate feature %q: %w", s.job.Features[fi].Name, err)
+		}
+		chunks = append(chunks, r)
+		samples += len(r.Profile)
+		at, i = moves[j-1].To, j
+	}
+	tr.first = append(tr.first, len(moves))
+	res := &engage.Result{Profile: make([]engage.Sample, 0, samples)}
+	for k, r := range chunks {
+		appendProfile(res, r.Profile, r.Summary, tr.first[k])
+	}
+	summarizeWindows(res, s.tool.Diameter)
+	return res, tr, nil
+}
+
+// appendProfile appends prof, the profile of a simulation of moves
+// numbered from base on, to res, its arc lengths carried on from res's
+// last sample, and adds the gouge and volume of sum, the simulation's
+// summary, to res's.
+func appendProfile(res *engage.Result, prof []engage.Sample, sum engage.Summary, base int) {
+	s0 := 0.0
+	if k := len(res.Profile); k > 0 {
+		s0 = res.Profile[k-1].S
+	}
+	for _, p := range prof {
+		p.Move += base
+		p.S += s0
+		res.Profile = append(res.Profile, p)
+	}
+	res.Summary.MaxGouge = math.Max(res.Summary.MaxGouge, sum.MaxGouge)
+	res.Summary.Volume += sum.Volume
+}
+
+// summarizeWindows sets res's MaxEng and MaxEngFull from its profile.
+func summarizeWindows(res *engage.Result, d float64) {
+	res.Summary.MaxEng, res.Summary.MaxEngFull = 0, 0
+	movingAverages(res.Profile, d, func(_, _ int, avg, l float64) {
+		res.Summary.MaxEng = math.Max(res.Summary.MaxEng, avg)
+		if l >= 1-1e-9 {
+			res.Summary.MaxEngFull = math.Max(res.Summary.MaxEngFull, avg)
+		}
+	})
+}
+
+// extraCandidate is a stretch relieved: the moves at..m1 of the path
+// (the stretch and the lead before it) replaced by moves, the extra pass
+// included, with their simulation res and largest window win, and the
+// stretch's arc lengths.
+type extraCandidate struct {
+	at, m1 int
+	s0, s1 float64
+	moves  []geom.Move
+	res    *engage.Result
+	win    float64
+	n      int
+	split  bool // the lead splits move at: moves starts with its first part
+}
+
+// joinRepairs returns the repairs prev and next, next's lead starting on
+// prev's last move (move next.at of moves, which starts at at0), as one:
+// prev up to that move, then next from where prev left the move. ok is
+// false when next's lead does not split the move.
+func joinRepairs(moves []geom.Move, at0 geom.Point3, prev, next extraCandidate) (extraCandidate, bool) {
+	if !next.split {
+		return prev, false
+	}
+	last := len(prev.moves) - 1
+	p0 := at0
+	if last > 0 {
+		p0 = prev.moves[last-1].To
+	}
+	// l0: the length of move next.at before p0, where next's profile
+	// takes over from prev's.
+	mv := moves[next.at]
+	mv.To = p0
+	l0 := geom.MoveLength(at0, mv)
+	if l0 >= geom.MoveLength(at0, next.moves[0])-1e-9 {
+		return prev, false
+	}
+	j := prev
+	j.m1, j.s1, j.n, j.win = next.m1, next.s1, prev.n+next.n, math.Max(prev.win, next.win)
+	j.moves = append(append([]geom.Move(nil), prev.moves[:last]...), next.moves...)
+	j.res = &engage.Result{Summary: prev.res.Summary}
+	for _, p := range prev.res.Profile {
+		if p.Move < last {
+			j.res.Profile = append(j.res.Profile, p)
+		}
+	}
+	s0 := 0.0
+	if k := len(j.res.Profile); k > 0 {
+		s0 = j.res.Profile[k-1].S
+	}
+	for _, p := range next.res.Profile {
+		if p.Move == 0 && p.S < l0 {
+			continue
+		}
+		p.Move += last
+		p.S += s0 - l0
+		j.res.Profile = append(j.res.Profile, p)
+	}
+	j.res.Summary.MaxGouge = math.Max(j.res.Summary.MaxGouge, next.res.Summary.MaxGouge)
+	return j, true
+}
+
+// relieve finds the stretches of the simulation res of moves (from start)
+// that exceed the repair limit and tries an extra pass before each at
+// every offset of extraPassShares (up to the band maximum). Of the
 // offsets that bring the stretch under the limit it keeps the one that
 // cuts least outside the in-band range; if none does, the one that lowers
-// the stretch's largest window most, if any. The repaired path is
-// simulated as it is built, piece by piece, and its profile put together;
-// where it gouges deeper or reads a higher maximum than res, the repair is
-// given up. It returns the repaired moves, their simulation and the number
-// of extra passes, or n 0 (and leaves the simulator's material as res left
-// it); again reports whether a stretch was relieved but not brought under
-// the limit, which another round may finish.
-func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, before *engage.Material, res *engage.Result) (repaired []geom.Move, rres *engage.Result, n int, again bool, err error) {
+// the stretch's largest window most, if any. A pass that gouges deeper
+// than res is not taken.
+//
+// The simulator's material is as moves leave it, and tr the trail they
+// were laid along. relieve goes back along it on a copy, stretch by
+// stretch from the last, and tries each stretch on the material the path
+// leaves before it: the passes before a stretch only cut what their own
+// stretches would have, earlier, so they leave the material it meets as
+// it was. It returns the
+// repaired moves and their simulation, spliced from res and the relieved
+// stretches', the stretches kept, and whether one of them is still above
+// the limit, which another round may relieve (a strip twice the step
+// needs two passes); none where no stretch is relieved, or where the
+// repaired path reads a higher maximum than res.
+func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, res *engage.Result, tr trail) (repaired []geom.Move, rres *engage.Result, kept []extraCandidate, again bool, err error) {
 	d := s.tool.Diameter
 	limit := s.band[1] + 0.03 - extraPassMargin
 	hs := hotStretches(res, d, limit)
 	if len(hs) == 0 {
-		return nil, nil, 0, false, nil
+		return nil, nil, nil, false, nil
 	}
 	allowed, err := s.allowed(fi)
 	if err != nil {
-		return nil, nil, 0, false, err
+		return nil, nil, nil, false, err
 	}
 	from := func(i int) geom.Point3 {
 		if i == 0 {
@@ -370,72 +544,50 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 		}
 		return moves[i-1].To
 	}
-	opt := engage.SimOptions{Band: s.band, SpindleRPM: s.job.Cut.SpindleRPM, Keep: s.keep}
-	sim := func(m *engage.Material, at geom.Point3, mv []geom.Move) (*engage.Result, error) {
-		if len(mv) == 0 {
-			return &engage.Result{}, nil
-		}
-		return engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: at, Moves: mv}, opt)
-	}
-	// m holds the material as the repaired path nm leaves it at cur, the
-	// start of move next or a point on it; prof is nm's profile, gouge its
-	// deepest gouge and vol the volume it removed.
-	m := before.Clone()
-	next, cur, lastS := 0, start, math.Inf(-1)
-	var nm []geom.Move
-	var prof []engage.Sample
-	gouge, vol := 0.0, 0.0
-	lay := func(at geom.Point3, mv []geom.Move) error {
-		r, err := sim(m, at, mv)
-		if err != nil {
-			return err
-		}
-		s0 := 0.0
-		if k := len(prof); k > 0 {
-			s0 = prof[k-1].S
-		}
-		for _, p := range r.Profile {
-			p.Move += len(nm)
-			p.S += s0
-			prof = append(prof, p)
-		}
-		gouge = math.Max(gouge, r.Summary.MaxGouge)
-		vol += r.Summary.Volume
-		nm = append(nm, mv...)
-		return nil
-	}
-	for _, h := range hs {
-		if h.s0-extraPassLead <= lastS {
-			continue
-		}
-		// The pass splits the material in two thinner cuts: of the
-		// offsets that hold the limit, the one that keeps most of both
-		// in the band.
-		var best extraRepair
-		bestWin, bestOut := h.maxWin-0.002, math.Inf(1)
+	m := s.m.Clone()
+	opt, pad := s.simOptions(), s.patchPad(m)
+	c := len(tr.first) - 1 // m holds the chunks before c
+	var cands []extraCandidate
+	for k := len(hs) - 1; k >= 0; k-- {
+		h := hs[k]
 		path, ok := extraPassOn(moves, start, h)
-		if !ok || path.at < next {
+		if !ok {
 			continue
 		}
 		at := path.at
+		// Back to the start of the chunk that holds move at, then on to
+		// the move.
+		for c > 0 && tr.first[c] > at {
+			c--
+			for i := len(tr.patches[c]) - 1; i >= 0; i-- {
+				m.Restore(tr.patches[c][i])
+			}
+		}
+		up, cur := moves[tr.first[c]:at], from(at)
+		var partial engage.Patch
+		if len(up) > 0 {
+			partial = m.Save(pathBounds(from(tr.first[c]), up), pad)
+			if _, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: from(tr.first[c]), Moves: up}, engage.SimOptions{Band: s.band}); err != nil {
+				return nil, nil, nil, false, err
+			}
+		}
+		best := extraCandidate{at: at, m1: h.m1, s0: h.s0, s1: h.s1, win: h.maxWin - 0.002, n: 1, split: path.split}
+		bestOut := math.Inf(1)
 		for _, f := range extraPassShares {
 			pass, ok := path.pass(h.side, math.Min(f*h.peakAE, s.band[1]*d), allowed)
 			if !ok {
 				break
 			}
 			rp := extraRepair{at: at, a: path.a, split: path.split, pass: pass}
-			if at > next {
-				if err := lay(cur, moves[next:at]); err != nil {
-					return nil, nil, 0, false, err
-				}
-				next, cur = at, from(at)
-			}
 			trial := append(append(rp.lead(moves), pass...), moves[at:h.m1+1]...)
-			undo := m.Save(pathBounds(cur, trial), 0.5*d+m.BandWidth()+m.CellSize())
-			rt, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: cur, Moves: trial}, engage.SimOptions{Band: s.band})
+			undo := m.Save(pathBounds(cur, trial), pad)
+			rt, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: cur, Moves: trial}, opt)
 			m.Restore(undo)
 			if err != nil {
-				return nil, nil, 0, false, err
+				return nil, nil, nil, false, err
+			}
+			if rt.Summary.MaxGouge > res.Summary.MaxGouge+1e-6 {
+				continue
 			}
 			w, oob := maxWindowIn(rt, d, 0, len(trial), false), outOfBand(rt, d, s.band)
 			// Under the limit over full windows: a window at the start of
@@ -443,39 +595,99 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 			// air) may stay above it if it is lowered.
 			under := maxWindowIn(rt, d, 0, len(trial), true) <= limit && w < h.maxWin
 			switch {
-			case under && (bestWin > limit || oob < bestOut), !under && bestWin > limit && w < bestWin:
-				best, bestWin, bestOut = rp, w, oob
+			case under && (best.win > limit || oob < bestOut), !under && best.win > limit && w < best.win:
+				best.moves, best.res, best.win, bestOut = trial, rt, w, oob
 			}
 		}
-		if best.pass == nil {
+		if best.moves != nil {
+			cands = append(cands, best)
+		}
+		if len(up) > 0 {
+			m.Restore(partial)
+		}
+	}
+	// In path order, each stretch clear of the one before; a stretch
+	// whose lead starts on the last move of the one before (a long move
+	// holding the end of one and the start of the next) shares it.
+	lastS, lastM := math.Inf(-1), -1
+	for i := len(cands) - 1; i >= 0; i-- {
+		cd := cands[i]
+		if cd.s0-extraPassLead <= lastS || cd.at < lastM {
 			continue
 		}
-		if err := lay(cur, append(best.lead(moves), best.pass...)); err != nil {
-			return nil, nil, 0, false, err
+		if cd.at == lastM {
+			prev := &kept[len(kept)-1]
+			joined, ok := joinRepairs(moves, from(cd.at), *prev, cd)
+			if !ok {
+				continue
+			}
+			*prev = joined
+		} else {
+			kept = append(kept, cd)
 		}
-		n++
-		again = again || bestWin > limit
-		cur, lastS = best.a, h.s1
+		lastS, lastM = cd.s1, cd.m1
 	}
-	if n == 0 {
-		return nil, nil, 0, false, nil
+	if len(kept) == 0 {
+		return nil, nil, nil, false, nil
 	}
-	if err := lay(cur, moves[next:]); err != nil {
-		return nil, nil, 0, false, err
+	repaired, rres = spliceRepairs(moves, res, kept)
+	summarizeWindows(rres, d)
+	if sr, so := rres.Summary, res.Summary; sr.MaxEng > so.MaxEng+1e-9 || sr.MaxEngFull > so.MaxEngFull+1e-9 {
+		return nil, nil, nil, false, nil
 	}
-	rres = &engage.Result{Profile: prof}
-	rres.Summary.MaxGouge, rres.Summary.Volume = gouge, vol
-	movingAverages(prof, d, func(_, _ int, avg, l float64) {
-		rres.Summary.MaxEng = math.Max(rres.Summary.MaxEng, avg)
-		if l >= 1-1e-9 {
-			rres.Summary.MaxEngFull = math.Max(rres.Summary.MaxEngFull, avg)
+	for _, cd := range kept {
+		again = again || cd.win > limit
+	}
+	return repaired, rres, kept, again, nil
+}
+
+// spliceRepairs returns moves with the stretches of kept (in path order,
+// apart) replaced, and the simulation res of moves with the samples of
+// those stretches replaced by theirs.
+func spliceRepairs(moves []geom.Move, res *engage.Result, kept []extraCandidate) ([]geom.Move, *engage.Result) {
+	nm, ns := len(moves), len(res.Profile)
+	for _, cd := range kept {
+		nm += len(cd.moves) - (cd.m1 + 1 - cd.at)
+		ns += len(cd.res.Profile)
+	}
+	out := make([]geom.Move, 0, nm)
+	rres := &engage.Result{Profile: make([]engage.Sample, 0, ns)}
+	// k runs over res's samples; shift is the arc length the stretches
+	// replaced so far add.
+	k, next, shift := 0, 0, 0.0
+	original := func(end int) {
+		for ; k < len(res.Profile) && res.Profile[k].Move < end; k++ {
+			p := res.Profile[k]
+			p.Move += len(out) - next
+			p.S += shift
+			rres.Profile = append(rres.Profile, p)
 		}
-	})
-	if sr, so := rres.Summary, res.Summary; sr.MaxGouge > so.MaxGouge+1e-6 || sr.MaxEng > so.MaxEng+1e-9 || sr.MaxEngFull > so.MaxEngFull+1e-9 {
-		return nil, nil, 0, false, nil
+		out = append(out, moves[next:end]...)
 	}
-	s.m = m
-	return nm, rres, n, again, nil
+	for _, cd := range kept {
+		original(cd.at)
+		s0 := 0.0
+		if k > 0 {
+			s0 = res.Profile[k-1].S
+		}
+		for k < len(res.Profile) && res.Profile[k].Move <= cd.m1 {
+			k++
+		}
+		s1 := s0
+		if k > 0 {
+			s1 = res.Profile[k-1].S
+		}
+		appendProfile(rres, cd.res.Profile, cd.res.Summary, len(out))
+		out = append(out, cd.moves...)
+		next = cd.m1 + 1
+		if n := len(rres.Profile); n > 0 {
+			shift = rres.Profile[n-1].S - s1
+		}
+	}
+	original(len(moves))
+	rres.Summary.MaxGouge = math.Max(rres.Summary.MaxGouge, res.Summary.MaxGouge)
+	rres.Summary.Volume = res.Summary.Volume
+	return out, rres
 }
 
 // bandedInsertRepairs puts the repaired moves of each feature (nil where
@@ -563,41 +775,45 @@ func (s *bandedSim) allowed(fi int) (func(geom.Point) bool, error) {
 }
 
 // bandedVerified is the verification of one feature: its moves with the
-// extra passes (nil where there are none) and how many, and, from the
-// simulation of those moves, the worst chips the feed repair holds and the
-// slotting to warn of.
+// extra passes (nil where there are none) and how many, their simulation,
+// and from it the worst chips the feed repair holds and the slotting to
+// warn of.
 type bandedVerified struct {
 	moves []geom.Move
 	extra int
+	res   *engage.Result
 	worst map[int]float64
 	slot  bandedSlotting
 }
 
 // verify simulates feature fi's moves (from start) on the material the
-// features before it left, relieves them with extra passes in up to
-// extraPassRounds rounds (where one pass leaves a stretch above the limit,
-// a strip twice the step, the next round relieves what is left) and
-// leaves the material as the repaired moves do.
+// features before it left and relieves them with extra passes. The
+// material is left as the moves leave it, which is also how the repaired
+// moves leave it: an extra pass cuts only what its stretch would have.
 func (s *bandedSim) verify(ctx context.Context, fi int, start geom.Point3, moves []geom.Move) (bandedVerified, error) {
 	var v bandedVerified
-	before := s.m.Clone()
-	res, err := s.feature(ctx, fi, start, moves, false)
+	res, tr, err := s.layTrail(ctx, fi, start, moves)
 	if err != nil {
 		return v, err
 	}
 	for range extraPassRounds {
-		nm, rres, n, again, err := s.relieve(ctx, fi, start, moves, before, res)
+		nm, rres, kept, again, err := s.relieve(ctx, fi, start, moves, res, tr)
 		if err != nil {
 			return v, err
 		}
-		if n > 0 {
-			moves, res = nm, rres
-			v.moves, v.extra = nm, v.extra+n
+		if kept == nil {
+			break
 		}
+		for _, cd := range kept {
+			v.extra += cd.n
+		}
+		tr = tr.after(kept)
+		moves, res, v.moves = nm, rres, nm
 		if !again {
 			break
 		}
 	}
+	v.res = res
 	v.worst = bandedWorstChips(s.job, res)
 	v.slot = bandedFindSlotting(s.job, res)
 	return v, nil

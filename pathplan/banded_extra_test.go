@@ -36,7 +36,6 @@ func TestExtraPassSplitsStrip(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	before := sim.m.Clone()
 	res, err := sim.feature(ctx, 0, start, moves, false)
 	if err != nil {
 		t.Fatal(err)
@@ -45,10 +44,14 @@ func TestExtraPassSplitsStrip(t *testing.T) {
 	if got := res.Summary.MaxEngFull; math.Abs(got-ae/6) > 0.01 {
 		t.Fatalf("the cut reads %.3f over 1 mm, want %.3f", got, ae/6)
 	}
-	out, rres, n, _, err := sim.relieve(ctx, 0, start, moves, before, res)
+	if sim, err = newBandedSim(job); err != nil {
+		t.Fatal(err)
+	}
+	v, err := sim.verify(ctx, 0, start, moves)
 	if err != nil {
 		t.Fatal(err)
 	}
+	out, rres, n := v.moves, v.res, v.extra
 	if n != 1 {
 		t.Fatalf("%d extra passes, want 1", n)
 	}
@@ -111,5 +114,92 @@ func TestBandedInsertRepairs(t *testing.T) {
 	}
 	if plan.Path.Ops[1].First != 5 || plan.Path.Moves[5].To.X != 3 {
 		t.Errorf("operation b starts at %d (move x %.0f), want 5 (x 3)", plan.Path.Ops[1].First, plan.Path.Moves[plan.Path.Ops[1].First].To.X)
+	}
+}
+
+// TestVerifySplicedSimulation checks what the one-pass verification rests
+// on: an extra pass cuts only what its stretch would have, earlier, so the
+// simulation put together from the feature's and the trials' reads what a
+// simulation of the repaired moves reads, and the material is left as the
+// repaired moves leave it. Both within the repair's own margin
+// (extraPassMargin, 0.005 of ae/D, on the 1 mm maxima) and, for the
+// material, but for cells along the edges of cuts (at most 0.1 % of the
+// feature's cells off by more than 0.01 mm).
+func TestVerifySplicedSimulation(t *testing.T) {
+	// The sign job's stretches include two on one long move, which share
+	// it (joinRepairs).
+	for _, name := range []string{"two_depths.json", "router_sign.json"} {
+		t.Run(name, func(t *testing.T) { testVerifySpliced(t, name) })
+	}
+}
+
+func testVerifySpliced(t *testing.T, name string) {
+	ctx := context.Background()
+	job, err := LoadJob("../testdata/jobs/" + name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	plan, err := PlanBanded(ctx, job, BandedOptions{NoVerify: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sim, err := newBandedSim(job)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checked := 0
+	for fi, fs := range plan.Features {
+		start := plan.Path.Start
+		if fs.First > 0 {
+			start = plan.Path.Moves[fs.First-1].To
+		}
+		before := sim.m.Clone()
+		v, err := sim.verify(ctx, fi, start, plan.Path.Moves[fs.First:fs.End])
+		if err != nil {
+			t.Fatal(err)
+		}
+		if v.extra == 0 {
+			continue
+		}
+		checked++
+		fresh, err := engage.Simulate(ctx, before, sim.tool, &geom.Toolpath{Start: start, Moves: v.moves}, sim.simOptions())
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, want := v.res.Summary, fresh.Summary
+		t.Logf("%s: %d extra passes; 1 mm maximum %.4f (full %.4f), simulated %.4f (%.4f); samples %d, %d", fs.Name, v.extra, got.MaxEng, got.MaxEngFull, want.MaxEng, want.MaxEngFull, len(v.res.Profile), len(fresh.Profile))
+		if math.Abs(got.MaxEng-want.MaxEng) > extraPassMargin || math.Abs(got.MaxEngFull-want.MaxEngFull) > extraPassMargin {
+			t.Errorf("%s: the spliced simulation reads %.4f (full %.4f), the repaired moves %.4f (%.4f)", fs.Name, got.MaxEng, got.MaxEngFull, want.MaxEng, want.MaxEngFull)
+		}
+		if d := math.Abs(outOfBand(v.res, 6, sim.band) - outOfBand(fresh, 6, sim.band)); d > 1 {
+			t.Errorf("%s: cutting outside the in-band range differs by %.2f mm", fs.Name, d)
+		}
+		// The material: the verification's against the repaired moves'.
+		tgt, err := geom.Intersection(job.Features[fi].Region, job.Stock.Outline)
+		if err != nil {
+			t.Fatal(err)
+		}
+		bb := tgt.Bounds()
+		cells, off := 0, 0
+		for x := bb.Min.X; x <= bb.Max.X; x += 0.2 {
+			for y := bb.Min.Y; y <= bb.Max.Y; y += 0.2 {
+				a, ok1 := sim.m.HeightAt(geom.Pt(x, y))
+				b, ok2 := before.HeightAt(geom.Pt(x, y))
+				if !ok1 || !ok2 {
+					continue
+				}
+				cells++
+				if math.Abs(a-b) > 0.01 {
+					off++
+				}
+			}
+		}
+		t.Logf("%s: %d of %d cells differ", fs.Name, off, cells)
+		if float64(off) > 0.001*float64(cells) {
+			t.Errorf("%s: %d of %d cells differ by more than 0.01 mm", fs.Name, off, cells)
+		}
+	}
+	if checked == 0 {
+		t.Fatal("no feature got an extra pass; the test checks nothing")
 	}
 }
