@@ -591,6 +591,18 @@ func (m *Material) Save(r geom.Rect, pad float64) Patch {
 	return p
 }
 
+// SaveBytes returns the memory a Save of r grown by pad would hold.
+func (m *Material) SaveBytes(r geom.Rect, pad float64) int {
+	win, ok := m.window(r, pad)
+	if !ok {
+		return 0
+	}
+	return win.nx * win.ny * bytesPerCell
+}
+
+// Bytes returns the memory p holds.
+func (p Patch) Bytes() int { return len(p.cells) * bytesPerCell }
+
 // Restore puts the cells of p back into m, the Material (or a clone of the
 // Material) p was saved from.
 func (m *Material) Restore(p Patch) {

@@ -29,7 +29,12 @@ func TestSaveRestore(t *testing.T) {
 		{Kind: geom.Feed, To: geom.Point3{X: 35, Y: 20, Z: -2}, Arc: true, Center: geom.Point{X: 35, Y: 17}, Feed: 1000},
 	}}
 	bounds := geom.Rect{Min: geom.Point{X: 20, Y: 14}, Max: geom.Point{X: 38, Y: 20}}
-	p := m.Save(bounds, tool.Diameter/2+m.BandWidth()+m.CellSize())
+	pad := tool.Diameter/2 + m.BandWidth() + m.CellSize()
+	p := m.Save(bounds, pad)
+	// The bounds grown by pad, in whole cells of 0.2 mm, 16 bytes each.
+	if got, want := p.Bytes(), m.SaveBytes(bounds, pad); got != want || got < int((18+2*pad)*(6+2*pad)/0.04)*16 {
+		t.Errorf("patch holds %d bytes, SaveBytes says %d, the grown bounds need at least %d", got, want, int((18+2*pad)*(6+2*pad)/0.04)*16)
+	}
 	a, err := Simulate(ctx, m, tool, trial, SimOptions{SummaryOnly: true})
 	if err != nil {
 		t.Fatal(err)

@@ -342,17 +342,29 @@ const extraChunk = 10.0
 
 // trail is a feature's moves as laid on the material in chunks: the first
 // move of each chunk (and, last, the number of moves) and the cells the
-// chunk changed, as they were before it (restored last first).
+// chunk changed, as they were before it (restored last first). Where the
+// memory budget does not hold the patches of every chunk, the first
+// chunks have none, and before holds the material as it was before the
+// feature.
 type trail struct {
 	first   []int
 	patches [][]engage.Patch
+	before  *engage.Material
 }
+
+// extraTrailBudget is the memory, bytes, the patches of one feature's
+// trail may hold: about 6 kB per mm of path (a 10 mm chunk's bounds,
+// grown by the tool radius and the distance band, at 0.2 mm cells), so
+// 256 MB hold some 40 m of path; the sign job's recess needs 124 MB.
+// Stretches before the patches are tried on a copy of before, the path
+// laid forward to each.
+const extraTrailBudget = 256 << 20
 
 // after returns the trail of the moves repaired by kept (spliceRepairs):
 // the chunks start at the same moves, those that start inside a relieved
 // stretch joined to the chunk before.
 func (tr trail) after(kept []extraCandidate) trail {
-	var out trail
+	out := trail{before: tr.before}
 	k, shift := 0, 0
 	for c, f := range tr.first {
 		for k < len(kept) && kept[k].m1 < f {
@@ -360,13 +372,22 @@ func (tr trail) after(kept []extraCandidate) trail {
 			k++
 		}
 		if k < len(kept) && kept[k].at < f && c > 0 && c < len(tr.first)-1 {
-			n := len(out.patches) - 1
-			out.patches[n] = append(out.patches[n], tr.patches[c]...)
+			// A chunk without patches makes the joined chunk one.
+			if n := len(out.patches) - 1; out.patches[n] != nil {
+				out.patches[n] = append(out.patches[n], tr.patches[c]...)
+				if tr.patches[c] == nil {
+					out.patches[n] = nil
+				}
+			}
 			continue
 		}
 		out.first = append(out.first, f+shift)
 		if c < len(tr.patches) {
-			out.patches = append(out.patches, append([]engage.Patch(nil), tr.patches[c]...))
+			var ps []engage.Patch
+			if tr.patches[c] != nil {
+				ps = append([]engage.Patch(nil), tr.patches[c]...)
+			}
+			out.patches = append(out.patches, ps)
 		}
 	}
 	return out
@@ -390,25 +411,50 @@ func (s *bandedSim) patchPad(m *engage.Material) float64 {
 // MaxEng and MaxEngFull take them) and the trail to go back along.
 func (s *bandedSim) layTrail(ctx context.Context, fi int, start geom.Point3, moves []geom.Move) (*engage.Result, trail, error) {
 	var tr trail
-	var chunks []*engage.Result
 	pad := s.patchPad(s.m)
-	at, samples := start, 0
-	for i := 0; i < len(moves); {
+	// The chunks, and the first whose patch the budget holds, counting
+	// from the last.
+	type span struct {
+		i, j int
+		at   geom.Point3
+	}
+	var spans []span
+	for i, at := 0, start; i < len(moves); {
 		j, l := i, 0.0
 		for from := at; j < len(moves) && (j == i || l < extraChunk); j++ {
 			l += geom.MoveLength(from, moves[j])
 			from = moves[j].To
 		}
-		chunk := moves[i:j]
-		tr.first = append(tr.first, i)
-		tr.patches = append(tr.patches, []engage.Patch{s.m.Save(pathBounds(at, chunk), pad)})
-		r, err := engage.Simulate(ctx, s.m, s.tool, &geom.Toolpath{Start: at, Moves: chunk}, s.simOptions())
+		spans = append(spans, span{i, j, at})
+		at, i = moves[j-1].To, j
+	}
+	keep, bytes := len(spans), 0
+	for keep > 0 {
+		sp := spans[keep-1]
+		if bytes += s.m.SaveBytes(pathBounds(sp.at, moves[sp.i:sp.j]), pad); bytes > s.trailBudget {
+			break
+		}
+		keep--
+	}
+	if keep > 0 {
+		tr.before = s.m.Clone()
+	}
+	chunks := make([]*engage.Result, 0, len(spans))
+	samples := 0
+	for c, sp := range spans {
+		chunk := moves[sp.i:sp.j]
+		tr.first = append(tr.first, sp.i)
+		var undo []engage.Patch
+		if c >= keep {
+			undo = []engage.Patch{s.m.Save(pathBounds(sp.at, chunk), pad)}
+		}
+		tr.patches = append(tr.patches, undo)
+		r, err := engage.Simulate(ctx, s.m, s.tool, &geom.Toolpath{Start: sp.at, Moves: chunk}, s.simOptions())
 		if err != nil {
 			return nil, tr, fmt.Errorf("simulate feature %q: %w", s.job.Features[fi].Name, err)
 		}
 		chunks = append(chunks, r)
 		samples += len(r.Profile)
-		at, i = moves[j-1].To, j
 	}
 	tr.first = append(tr.first, len(moves))
 	res := &engage.Result{Profile: make([]engage.Sample, 0, samples)}
@@ -521,7 +567,8 @@ func joinRepairs(moves []geom.Move, at0 geom.Point3, prev, next extraCandidate) 
 // stretch from the last, and tries each stretch on the material the path
 // leaves before it: the passes before a stretch only cut what their own
 // stretches would have, earlier, so they leave the material it meets as
-// it was. It returns the
+// it was. Stretches before the trail's patches (where its budget ran out)
+// are tried forward, on a copy of the material before the feature. It returns the
 // repaired moves and their simulation, spliced from res and the relieved
 // stretches', the stretches kept, and whether one of them is still above
 // the limit, which another round may relieve (a strip twice the step
@@ -546,31 +593,10 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 	}
 	m := s.m.Clone()
 	opt, pad := s.simOptions(), s.patchPad(m)
-	c := len(tr.first) - 1 // m holds the chunks before c
-	var cands []extraCandidate
-	for k := len(hs) - 1; k >= 0; k-- {
-		h := hs[k]
-		path, ok := extraPassOn(moves, start, h)
-		if !ok {
-			continue
-		}
+	// try returns stretch h relieved, its pass laid along path from cur on
+	// m, which holds the material the path leaves there.
+	try := func(h hotStretch, path extraPassPath, cur geom.Point3) (extraCandidate, error) {
 		at := path.at
-		// Back to the start of the chunk that holds move at, then on to
-		// the move.
-		for c > 0 && tr.first[c] > at {
-			c--
-			for i := len(tr.patches[c]) - 1; i >= 0; i-- {
-				m.Restore(tr.patches[c][i])
-			}
-		}
-		up, cur := moves[tr.first[c]:at], from(at)
-		var partial engage.Patch
-		if len(up) > 0 {
-			partial = m.Save(pathBounds(from(tr.first[c]), up), pad)
-			if _, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: from(tr.first[c]), Moves: up}, engage.SimOptions{Band: s.band}); err != nil {
-				return nil, nil, nil, false, err
-			}
-		}
 		best := extraCandidate{at: at, m1: h.m1, s0: h.s0, s1: h.s1, win: h.maxWin - 0.002, n: 1, split: path.split}
 		bestOut := math.Inf(1)
 		for _, f := range extraPassShares {
@@ -584,7 +610,7 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 			rt, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: cur, Moves: trial}, opt)
 			m.Restore(undo)
 			if err != nil {
-				return nil, nil, nil, false, err
+				return best, err
 			}
 			if rt.Summary.MaxGouge > res.Summary.MaxGouge+1e-6 {
 				continue
@@ -599,11 +625,80 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 				best.moves, best.res, best.win, bestOut = trial, rt, w, oob
 			}
 		}
-		if best.moves != nil {
-			cands = append(cands, best)
+		return best, nil
+	}
+	// lay simulates moves i..j-1 on m, for the material only.
+	lay := func(i, j int) error {
+		if j <= i {
+			return nil
 		}
-		if len(up) > 0 {
+		_, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: from(i), Moves: moves[i:j]}, engage.SimOptions{Band: s.band})
+		return err
+	}
+	c := len(tr.first) - 1 // m holds the chunks before c
+	var cands []extraCandidate
+	k := len(hs) - 1
+	for ; k >= 0; k-- {
+		h := hs[k]
+		path, ok := extraPassOn(moves, start, h)
+		if !ok {
+			continue
+		}
+		at := path.at
+		// Back to the start of the chunk that holds move at, then on to
+		// the move.
+		for c > 0 && tr.first[c] > at && tr.patches[c-1] != nil {
+			c--
+			for i := len(tr.patches[c]) - 1; i >= 0; i-- {
+				m.Restore(tr.patches[c][i])
+			}
+		}
+		if tr.first[c] > at {
+			break // before the patches: forward, below
+		}
+		var partial engage.Patch
+		if at > tr.first[c] {
+			partial = m.Save(pathBounds(from(tr.first[c]), moves[tr.first[c]:at]), pad)
+			if err := lay(tr.first[c], at); err != nil {
+				return nil, nil, nil, false, err
+			}
+		}
+		cd, err := try(h, path, from(at))
+		if err != nil {
+			return nil, nil, nil, false, err
+		}
+		if cd.moves != nil {
+			cands = append(cands, cd)
+		}
+		if at > tr.first[c] {
 			m.Restore(partial)
+		}
+	}
+	if k >= 0 {
+		// The stretches 0..k, before the trail's patches: forward from
+		// the material before the feature.
+		m = tr.before.Clone()
+		var fwd []extraCandidate
+		next := 0
+		for _, h := range hs[:k+1] {
+			path, ok := extraPassOn(moves, start, h)
+			if !ok || path.at < next {
+				continue
+			}
+			if err := lay(next, path.at); err != nil {
+				return nil, nil, nil, false, err
+			}
+			next = path.at
+			cd, err := try(h, path, from(path.at))
+			if err != nil {
+				return nil, nil, nil, false, err
+			}
+			if cd.moves != nil {
+				fwd = append(fwd, cd)
+			}
+		}
+		for i := len(fwd) - 1; i >= 0; i-- {
+			cands = append(cands, fwd[i])
 		}
 	}
 	// In path order, each stretch clear of the one before; a stretch

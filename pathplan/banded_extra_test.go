@@ -203,3 +203,53 @@ func testVerifySpliced(t *testing.T, name string) {
 		t.Fatal("no feature got an extra pass; the test checks nothing")
 	}
 }
+
+// TestVerifyTrailBudget: with a trail too small for the whole feature (or
+// none at all) the stretches before its patches are tried forward from the
+// material before the feature, and the verification comes to the same
+// repair: those stretches meet the same material either way.
+func TestVerifyTrailBudget(t *testing.T) {
+	ctx := context.Background()
+	job, err := LoadJob("../testdata/jobs/two_depths.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	plan, err := PlanBanded(ctx, job, BandedOptions{NoVerify: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	run := func(budget int) []bandedVerified {
+		sim, err := newBandedSim(job)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sim.trailBudget = budget
+		var out []bandedVerified
+		for fi, fs := range plan.Features {
+			start := plan.Path.Start
+			if fs.First > 0 {
+				start = plan.Path.Moves[fs.First-1].To
+			}
+			v, err := sim.verify(ctx, fi, start, plan.Path.Moves[fs.First:fs.End])
+			if err != nil {
+				t.Fatal(err)
+			}
+			out = append(out, v)
+		}
+		return out
+	}
+	want := run(extraTrailBudget)
+	for _, budget := range []int{0, 4 << 20} {
+		got := run(budget)
+		for fi, v := range got {
+			w := want[fi]
+			if w.extra == 0 {
+				continue
+			}
+			t.Logf("budget %d MB, %s: %d extra passes (%d), maximum %.4f (%.4f)", budget>>20, plan.Features[fi].Name, v.extra, w.extra, v.res.Summary.MaxEng, w.res.Summary.MaxEng)
+			if v.extra != w.extra || len(v.moves) != len(w.moves) || v.res.Summary.MaxEng != w.res.Summary.MaxEng {
+				t.Errorf("budget %d: %s: %d extra passes, %d moves, maximum %.4f; with the whole trail %d, %d, %.4f", budget, plan.Features[fi].Name, v.extra, len(v.moves), v.res.Summary.MaxEng, w.extra, len(w.moves), w.res.Summary.MaxEng)
+			}
+		}
+	}
+}

@@ -70,6 +70,9 @@ type bandedSim struct {
 	// domains caches the tool-centre domain of each feature the extra
 	// passes keep to (allowed).
 	domains map[int]geom.Shape
+	// trailBudget is the memory, bytes, a feature's trail may hold
+	// (extraTrailBudget).
+	trailBudget int
 }
 
 func newBandedSim(job *Job) (*bandedSim, error) {
@@ -86,7 +89,7 @@ func newBandedSim(job *Job) (*bandedSim, error) {
 		band = defaultBand
 	}
 	tool := engage.Tool{Diameter: job.Tool.Diameter, FluteLength: job.Tool.FluteLength, Flutes: job.Tool.Flutes}
-	return &bandedSim{job: job, tool: tool, m: m, keep: keep, band: band}, nil
+	return &bandedSim{job: job, tool: tool, m: m, keep: keep, band: band, trailBudget: extraTrailBudget}, nil
 }
 
 // feature simulates the moves of feature fi, from start, on the material
