@@ -28,7 +28,6 @@ var bandedMustShowShort = map[string]bool{
 	"open_slot.json/slot/cycle":                    true,
 	"open_slot.json/slot/in-band":                  true,
 	"pocket_islands.json/island pocket/cycle":      true,
-	"router_sign.json/recess/max":                  true,
 	"shallow_channels.json/channel recess/above":   true,
 	"shallow_channels.json/channel recess/cycle":   true,
 	"shallow_channels.json/channel recess/in-band": true,
