@@ -133,26 +133,31 @@ func TestVerifySplicedSimulation(t *testing.T) {
 	}
 }
 
-func testVerifySpliced(t *testing.T, name string) {
-	ctx := context.Background()
+// unverifiedPlan loads testdata job name and plans it banded without the
+// verification.
+func unverifiedPlan(t *testing.T, name string) (*Job, *Plan) {
+	t.Helper()
 	job, err := LoadJob("../testdata/jobs/" + name)
 	if err != nil {
 		t.Fatal(err)
 	}
-	plan, err := PlanBanded(ctx, job, BandedOptions{NoVerify: true})
+	plan, err := PlanBanded(context.Background(), job, BandedOptions{NoVerify: true})
 	if err != nil {
 		t.Fatal(err)
 	}
+	return job, plan
+}
+
+func testVerifySpliced(t *testing.T, name string) {
+	ctx := context.Background()
+	job, plan := unverifiedPlan(t, name)
 	sim, err := newBandedSim(job)
 	if err != nil {
 		t.Fatal(err)
 	}
 	checked := 0
 	for fi, fs := range plan.Features {
-		start := plan.Path.Start
-		if fs.First > 0 {
-			start = plan.Path.Moves[fs.First-1].To
-		}
+		start := plan.featureStart(fi)
 		before := sim.m.Clone()
 		v, err := sim.verify(ctx, fi, start, plan.Path.Moves[fs.First:fs.End])
 		if err != nil {
@@ -210,14 +215,7 @@ func testVerifySpliced(t *testing.T, name string) {
 // repair: those stretches meet the same material either way.
 func TestVerifyTrailBudget(t *testing.T) {
 	ctx := context.Background()
-	job, err := LoadJob("../testdata/jobs/two_depths.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	plan, err := PlanBanded(ctx, job, BandedOptions{NoVerify: true})
-	if err != nil {
-		t.Fatal(err)
-	}
+	job, plan := unverifiedPlan(t, "two_depths.json")
 	run := func(budget int) []bandedVerified {
 		sim, err := newBandedSim(job)
 		if err != nil {
@@ -226,10 +224,7 @@ func TestVerifyTrailBudget(t *testing.T) {
 		sim.trailBudget = budget
 		var out []bandedVerified
 		for fi, fs := range plan.Features {
-			start := plan.Path.Start
-			if fs.First > 0 {
-				start = plan.Path.Moves[fs.First-1].To
-			}
+			start := plan.featureStart(fi)
 			v, err := sim.verify(ctx, fi, start, plan.Path.Moves[fs.First:fs.End])
 			if err != nil {
 				t.Fatal(err)

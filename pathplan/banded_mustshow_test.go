@@ -94,10 +94,7 @@ func bandedMustShowJob(t *testing.T, name string, job *Job) {
 		s := r.Engagement
 		fs := plan.Features[i]
 		f := job.Features[i]
-		start := plan.Path.Start
-		if fs.First > 0 {
-			start = plan.Path.Moves[fs.First-1].To
-		}
+		start := plan.featureStart(i)
 		// Exact distance of the tool-centre path to the walls.
 		gouge, _ := bandedExactGouge(&geom.Toolpath{Start: start, Moves: plan.Path.Moves[fs.First:fs.End]}, keep, job.Tool.Radius(), job.Stock.Top)
 		// Uncut reachable material (issue 6): the residual in the part of

@@ -50,10 +50,7 @@ func bandedWorstChips(job *Job, res *engage.Result) map[int]float64 {
 func bandedApplyRepair(plan *Plan, fi int, worst map[int]float64) {
 	load := plan.Job.Cut.ChipLoad
 	fs := &plan.Features[fi]
-	from := plan.Path.Start
-	if fs.First > 0 {
-		from = plan.Path.Moves[fs.First-1].To
-	}
+	from := plan.featureStart(fi)
 	for i := fs.First; i < fs.End; i++ {
 		mv := &plan.Path.Moves[i]
 		h := worst[i-fs.First]

@@ -26,10 +26,7 @@ func bandedRepairFeeds(ctx context.Context, plan *Plan, feeds bool) error {
 	var extra []int
 	var worst []map[int]float64
 	for fi, fs := range plan.Features {
-		start := plan.Path.Start
-		if fs.First > 0 {
-			start = plan.Path.Moves[fs.First-1].To
-		}
+		start := plan.featureStart(fi)
 		v, err := sim.verify(ctx, fi, start, plan.Path.Moves[fs.First:fs.End])
 		if err != nil {
 			return err

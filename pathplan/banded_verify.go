@@ -36,6 +36,15 @@ func bandedFeatureSim(ctx context.Context, plan *Plan) ([]engage.Summary, error)
 	return out, err
 }
 
+// featureStart returns where the tool is when feature fi's moves begin:
+// the end of the move before them, or the path's start.
+func (p *Plan) featureStart(fi int) geom.Point3 {
+	if k := p.Features[fi].First; k > 0 {
+		return p.Path.Moves[k-1].To
+	}
+	return p.Path.Start
+}
+
 // bandedSimEach simulates the moves of each feature of plan with engage, on
 // the material left by the features before it, and hands each result to
 // each with the feature's index; profile keeps the per-sample profile.
@@ -45,10 +54,7 @@ func bandedSimEach(ctx context.Context, plan *Plan, summaryOnly bool, each func(
 		return err
 	}
 	for fi, fs := range plan.Features {
-		start := plan.Path.Start
-		if fs.First > 0 {
-			start = plan.Path.Moves[fs.First-1].To
-		}
+		start := plan.featureStart(fi)
 		res, err := sim.feature(ctx, fi, start, plan.Path.Moves[fs.First:fs.End], summaryOnly)
 		if err != nil {
 			return err
