@@ -571,12 +571,13 @@ func joinRepairs(moves []geom.Move, at0 geom.Point3, prev, next extraCandidate) 
 // leaves before it: the passes before a stretch only cut what their own
 // stretches would have, earlier, so they leave the material it meets as
 // it was. Stretches before the trail's patches (where its budget ran out)
-// are tried forward, on a copy of the material before the feature. It returns the
-// repaired moves and their simulation, spliced from res and the relieved
-// stretches', the stretches kept, and whether one of them is still above
-// the limit, which another round may relieve (a strip twice the step
-// needs two passes); none where no stretch is relieved, or where the
-// repaired path reads a higher maximum than res.
+// are tried forward, on a copy of the material before the feature.
+//
+// It returns the repaired moves and their simulation, spliced from res and
+// the relieved stretches', the stretches kept, and whether one of them is
+// still above the limit, which another round may relieve (a strip twice
+// the step needs two passes); none where no stretch is relieved, or where
+// the repaired path reads a higher maximum than res.
 func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, moves []geom.Move, res *engage.Result, tr trail) (repaired []geom.Move, rres *engage.Result, kept []extraCandidate, again bool, err error) {
 	d := s.tool.Diameter
 	limit := s.band[1] + 0.03 - extraPassMargin
