@@ -266,38 +266,15 @@ func appendMovePoints(pts []geom.Point, feeds []float64, from geom.Point, mv geo
 	return pts, feeds
 }
 
-// extraRepair is one extra pass inserted into a feature's moves: before
-// move at, from the point a on it, which splits the move unless a is the
-// end of the move before.
-type extraRepair struct {
-	at    int
-	a     geom.Point3
-	split bool
-	pass  []geom.Move
-}
-
-// lead returns the moves that take the tool to the repair's point a from
-// the start of move at: the first part of the split move, or nothing.
-func (rp extraRepair) lead(moves []geom.Move) []geom.Move {
-	if !rp.split {
+// lead returns the moves that take the tool from the start of move p.at
+// to the pass's point a: the first part of the move a splits, or nothing.
+func (p extraPassPath) lead(moves []geom.Move) []geom.Move {
+	if !p.split {
 		return nil
 	}
-	mv := moves[rp.at]
-	mv.To = rp.a
+	mv := moves[p.at]
+	mv.To = p.a
 	return []geom.Move{mv}
-}
-
-// maxWindowIn returns the largest 1 mm moving average of ae/D (as engage's
-// MaxEng takes it, or MaxEngFull when full is set) over the cutting samples
-// of res whose moves lie in [m0, m1].
-func maxWindowIn(res *engage.Result, d float64, m0, m1 int, full bool) float64 {
-	best := 0.0
-	movingAverages(res.Profile, d, func(_, k int, avg, l float64) {
-		if m := res.Profile[k].Move; (l >= 1-1e-9 || !full) && m >= m0 && m <= m1 {
-			best = math.Max(best, avg)
-		}
-	})
-	return best
 }
 
 // movingAverages calls fn for every cutting sample k of prof with the 1 mm
@@ -608,8 +585,7 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 			if !ok {
 				break
 			}
-			rp := extraRepair{at: at, a: path.a, split: path.split, pass: pass}
-			trial := append(append(rp.lead(moves), pass...), moves[at:h.m1+1]...)
+			trial := append(append(path.lead(moves), pass...), moves[at:h.m1+1]...)
 			undo := m.Save(pathBounds(cur, trial), pad)
 			rt, err := engage.Simulate(ctx, m, s.tool, &geom.Toolpath{Start: cur, Moves: trial}, opt)
 			m.Restore(undo)
@@ -619,11 +595,12 @@ func (s *bandedSim) relieve(ctx context.Context, fi int, start geom.Point3, move
 			if rt.Summary.MaxGouge > res.Summary.MaxGouge+1e-6 {
 				continue
 			}
-			w, oob := maxWindowIn(rt, d, 0, len(trial), false), outOfBand(rt, d, s.band)
+			summarizeWindows(rt, d)
+			w, oob := rt.Summary.MaxEng, outOfBand(rt, d, s.band)
 			// Under the limit over full windows: a window at the start of
 			// a run (where the pass first meets the material from the
 			// air) may stay above it if it is lowered.
-			under := maxWindowIn(rt, d, 0, len(trial), true) <= limit && w < h.maxWin
+			under := rt.Summary.MaxEngFull <= limit && w < h.maxWin
 			switch {
 			case under && (best.win > limit || oob < bestOut), !under && best.win > limit && w < best.win:
 				best.moves, best.res, best.win, bestOut = trial, rt, w, oob
