@@ -207,11 +207,11 @@ func (g *bandedGrid) stampPath(pts []geom.Point) {
 	}
 	g.stock.cuts++
 	if len(pts) == 1 {
-		g.stampSeg(pts[0], pts[0])
+		g.stampSeg(pts[0], pts[0], false)
 		return
 	}
 	for i := 0; i+1 < len(pts); i++ {
-		g.stampSeg(pts[i], pts[i+1])
+		g.stampSeg(pts[i], pts[i+1], i > 0)
 	}
 }
 
@@ -309,8 +309,12 @@ func (c *capsule) row(y float64) (lo, hi float64) {
 	return lo, hi
 }
 
-// stampSeg records the segment ab as cut (see stampPath).
-func (g *bandedGrid) stampSeg(a, b geom.Point) {
+// stampSeg records the segment ab as cut (see stampPath). joined says a
+// segment ending at a was stamped before: the nodes behind a (projection
+// before a on ab) are then left, since their distance to ab is their
+// distance to a, which that segment already gave them, so only the strip
+// and the end cap at b are swept.
+func (g *bandedGrid) stampSeg(a, b geom.Point, joined bool) {
 	s := g.stock
 	// A node beside the cut edge lies within a node spacing of it (the
 	// distance is 1-Lipschitz), so exact distances within r ± h suffice.
@@ -326,6 +330,18 @@ func (g *bandedGrid) stampSeg(a, b geom.Point) {
 		lo, hi := cs.row(y)
 		if lo > hi {
 			continue
+		}
+		if joined && l2 > 0 {
+			// The half-plane (x−a)·ab ≥ 0, a node's width wider.
+			q := (y - a.Y) * ab.Y
+			switch {
+			case ab.X > 0:
+				lo = max(lo, a.X-q/ab.X-g.h)
+			case ab.X < 0:
+				hi = min(hi, a.X-q/ab.X+g.h)
+			case q < 0:
+				continue
+			}
 		}
 		ci0 := max(0, int(math.Ceil((lo-g.x0)/g.h)))
 		ci1 := min(g.nx-1, int(math.Floor((hi-g.x0)/g.h)))
