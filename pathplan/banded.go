@@ -190,8 +190,19 @@ func bandedSetup(job *Job, opt BandedOptions) (bandedSettings, error) {
 // the chip load, and full slotting is named in Plan.Warnings (see
 // BandedOptions.NoVerify); BandedReport measures the path.
 func PlanBanded(ctx context.Context, job *Job, opts BandedOptions) (*Plan, error) {
-	// The other cores plan later features ahead.
-	return planBanded(ctx, job, opts, runtime.GOMAXPROCS(0)-1)
+	// Later features are planned ahead, one goroutine per core, while
+	// this one plans the first and then takes the rest in order (idle
+	// most of the time); the verification, when it runs, takes a core of
+	// its own. On one core everything is planned in order.
+	n := runtime.GOMAXPROCS(0)
+	workers := n
+	if !opts.NoVerify && bandedRepairs(job) {
+		workers = n - 1
+	}
+	if n < 2 {
+		workers = 0
+	}
+	return planBanded(ctx, job, opts, workers)
 }
 
 // planBanded is PlanBanded with workers goroutines planning features
