@@ -751,6 +751,7 @@ func bandedLevel(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	var pos geom.Point
 	inAir := false
 	p.leanHoles = comp.open
+	p.trimBoundary = comp.open
 	var grown geom.Shape // the stock grown by the tool radius: outside it the tool is in the air
 	if comp.open {
 		var err error

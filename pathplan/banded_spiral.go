@@ -65,6 +65,10 @@ type spiralParams struct {
 	// leanHoles leans pass ends onto the walls of holes too (open
 	// features, where the holes are the part).
 	leanHoles bool
+	// trimBoundary leaves out of the boundary pass the stretches where it
+	// would cut nothing (boundaryTrim): open parts, whose boundary runs
+	// through the air round the stock.
+	trimBoundary bool
 	// leanIslands leans pass ends onto the islands of a pocket, more
 	// gently (islandLeanAngle, islandLeanSpan), unless
 	// BandedOptions.SquareIslands.
@@ -377,12 +381,16 @@ func spiralBoundary(g *bandedGrid, c geom.Shape, at *geom.Point, p spiralParams)
 			} else if bd > 1e-6 {
 				out = append(out, spiralLink(g, pos, bq, p)...)
 			}
+			ringAt := len(out)
 			if p.squareCorners {
 				out = append(out, bandedPiece{kind: pieceBoundary, pts: pts})
 			} else {
 				out = append(out, spiralCorners(g, c, pts, p)...)
 			}
 			pos = pts[len(pts)-1]
+			if p.trimBoundary {
+				out = append(out[:ringAt], boundaryTrim(g, out[ringAt:], p)...)
+			}
 		}
 	}
 	*at = pos
@@ -1164,4 +1172,123 @@ func nearestEdge(c geom.Shape, q geom.Point) (d float64, a, b, at geom.Point, ho
 		}
 	}
 	return d, a, b, at, hole
+}
+
+// touchesStock reports whether the tool centred at q may reach the stock,
+// cut or not: a node inside the stock outline lies within the tool radius
+// and two node spacings (the raster knows the outline to a node in x and
+// in y) of q.
+func (g *bandedGrid) touchesStock(q geom.Point) bool {
+	s := g.stock
+	if s == nil {
+		return true
+	}
+	r := s.r + 2*g.h
+	i0 := max(0, int(math.Ceil((q.X-r-g.x0)/g.h)))
+	i1 := min(g.nx-1, int(math.Floor((q.X+r-g.x0)/g.h)))
+	j0 := max(0, int(math.Ceil((q.Y-r-g.y0)/g.h)))
+	j1 := min(g.ny-1, int(math.Floor((q.Y+r-g.y0)/g.h)))
+	for j := j0; j <= j1; j++ {
+		dy := g.y0 + float64(j)*g.h - q.Y
+		for i := i0; i <= i1; i++ {
+			dx := g.x0 + float64(i)*g.h - q.X
+			if dx*dx+dy*dy <= r*r && !s.air[j*g.nx+i] {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// boundaryTrim leaves out of the boundary pass's pieces (in cutting
+// order) the stretches longer than twice the tool radius along which the
+// tool would cut nothing the grid holds uncut (the air round open stock,
+// walls the passes already reached), and links over them.
+func boundaryTrim(g *bandedGrid, pieces []bandedPiece, p spiralParams) []bandedPiece {
+	if g.stock == nil {
+		return pieces
+	}
+	minGap := 2 * p.r
+	ds := math.Max(g.h, 0.25)
+	var out []bandedPiece
+	for _, pc := range pieces {
+		if (pc.kind != pieceBoundary && pc.kind != pieceCut) || pc.arcs != nil || len(pc.pts) < 2 {
+			out = append(out, pc)
+			continue
+		}
+		pts := pc.pts
+		cum := make([]float64, len(pts))
+		for i := 1; i < len(pts); i++ {
+			cum[i] = cum[i-1] + pts[i].Dist(pts[i-1])
+		}
+		total := cum[len(cum)-1]
+		n := int(math.Ceil(total / ds))
+		if n < 2 {
+			out = append(out, pc)
+			continue
+		}
+		need := make([]bool, n+1)
+		for k := 0; k <= n; k++ {
+			need[k] = g.touchesStock(polyAt(pts, cum, total*float64(k)/float64(n), false, total))
+		}
+		// Gaps: runs of samples that need nothing, kept a sample short of
+		// their ends.
+		type gap struct{ a, b float64 }
+		var gaps []gap
+		for k := 0; k <= n; {
+			if need[k] {
+				k++
+				continue
+			}
+			e := k
+			for e <= n && !need[e] {
+				e++
+			}
+			a, b := float64(k-1)*total/float64(n), float64(e)*total/float64(n)
+			if k == 0 {
+				a = 0
+			}
+			if e > n {
+				b = total
+			}
+			if b-a >= minGap {
+				gaps = append(gaps, gap{a, b})
+			}
+			k = e
+		}
+		if len(gaps) == 0 {
+			out = append(out, pc)
+			continue
+		}
+		from := 0.0
+		for _, gp := range gaps {
+			if gp.a > from {
+				sub := polySub(pts, cum, from, gp.a)
+				out = append(out, bandedPiece{kind: pc.kind, pts: sub})
+			}
+			qa := polyAt(pts, cum, gp.a, false, total)
+			qb := polyAt(pts, cum, gp.b, false, total)
+			if qa.Dist(qb) > 1e-9 {
+				out = append(out, spiralLink(g, qa, qb, p)...)
+			}
+			from = gp.b
+		}
+		if from < total {
+			out = append(out, bandedPiece{kind: pc.kind, pts: polySub(pts, cum, from, total)})
+		}
+	}
+	return out
+}
+
+// polySub returns the stretch of the open polyline pts (cumulative lengths
+// cum) from arc length s0 to s1.
+func polySub(pts []geom.Point, cum []float64, s0, s1 float64) []geom.Point {
+	total := cum[len(cum)-1]
+	out := []geom.Point{polyAt(pts, cum, s0, false, total)}
+	for i, c := range cum {
+		if c > s0 && c < s1 {
+			out = append(out, pts[i])
+		}
+	}
+	return append(out, polyAt(pts, cum, s1, false, total))
 }

@@ -161,6 +161,7 @@ func bandedZoned(ctx context.Context, b *builder, job *Job, fi int, comp bandedC
 	g.initStock(comp.c, job.Stock.Outline, st.r, st.r*(1-math.Cos(st.phi)))
 	p := newSpiralParams(st)
 	p.noBoundary = true
+	p.trimBoundary = comp.open
 	band := job.Cut.Band
 	if band[1] <= 0 {
 		band = defaultBand
