@@ -65,9 +65,9 @@ type spiralParams struct {
 	// leanHoles leans pass ends onto the walls of holes too (open
 	// features, where the holes are the part).
 	leanHoles bool
-	// trimBoundary leaves out of the boundary pass the stretches where it
-	// would cut nothing (boundaryTrim): open parts, whose boundary runs
-	// through the air round the stock.
+	// trimBoundary leaves out of the boundary pass the stretches where the
+	// tool cannot reach the stock (boundaryTrim): open parts, whose
+	// boundary runs through the air round it.
 	trimBoundary bool
 	// leanIslands leans pass ends onto the islands of a pocket, more
 	// gently (islandLeanAngle, islandLeanSpan), unless
@@ -1176,14 +1176,14 @@ func nearestEdge(c geom.Shape, q geom.Point) (d float64, a, b, at geom.Point, ho
 
 // touchesStock reports whether the tool centred at q may reach the stock,
 // cut or not: a node inside the stock outline lies within the tool radius
-// and two node spacings (the raster knows the outline to a node in x and
-// in y) of q.
-func (g *bandedGrid) touchesStock(q geom.Point) bool {
+// and margin of q (at least two node spacings: the raster knows the
+// outline to a node in x and in y).
+func (g *bandedGrid) touchesStock(q geom.Point, margin float64) bool {
 	s := g.stock
 	if s == nil {
 		return true
 	}
-	r := s.r + 2*g.h
+	r := s.r + max(margin, 2*g.h)
 	i0 := max(0, int(math.Ceil((q.X-r-g.x0)/g.h)))
 	i1 := min(g.nx-1, int(math.Floor((q.X+r-g.x0)/g.h)))
 	j0 := max(0, int(math.Ceil((q.Y-r-g.y0)/g.h)))
@@ -1202,8 +1202,10 @@ func (g *bandedGrid) touchesStock(q geom.Point) bool {
 
 // boundaryTrim leaves out of the boundary pass's pieces (in cutting
 // order) the stretches longer than twice the tool radius along which the
-// tool would cut nothing the grid holds uncut (the air round open stock,
-// walls the passes already reached), and links over them.
+// tool cannot reach the stock (touchesStock: the air round an open part),
+// and links over them. The pass is sampled every ds and reaches with a
+// margin of ds, so the last sample kept on either side of a stretch left
+// out still lies beyond the stock's reach.
 func boundaryTrim(g *bandedGrid, pieces []bandedPiece, p spiralParams) []bandedPiece {
 	if g.stock == nil {
 		return pieces
@@ -1229,10 +1231,10 @@ func boundaryTrim(g *bandedGrid, pieces []bandedPiece, p spiralParams) []bandedP
 		}
 		need := make([]bool, n+1)
 		for k := 0; k <= n; k++ {
-			need[k] = g.touchesStock(polyAt(pts, cum, total*float64(k)/float64(n), false, total))
+			need[k] = g.touchesStock(polyAt(pts, cum, total*float64(k)/float64(n), false, total), ds)
 		}
-		// Gaps: runs of samples that need nothing, kept a sample short of
-		// their ends.
+		// Gaps: runs of samples out of reach, from the last sample within
+		// reach before them to the first after.
 		type gap struct{ a, b float64 }
 		var gaps []gap
 		for k := 0; k <= n; {
