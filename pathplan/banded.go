@@ -308,6 +308,8 @@ type bandedVerifier struct {
 	// (nil where none was), extra how many.
 	moves [][]geom.Move
 	extra []int
+	// aside counts the features verified on a clone of the material.
+	aside int
 	err   error
 }
 
@@ -356,19 +358,152 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 		defer close(v.done)
 		sim, err := newBandedSim(job)
 		v.err = err
+		record := func(fi int, fv bandedVerified, err error) {
+			if err != nil {
+				if v.err == nil {
+					v.err = err
+				}
+				return
+			}
+			v.moves[fi], v.extra[fi], v.worst[fi], v.slots[fi] = fv.moves, fv.extra, fv.worst, fv.slot
+		}
+		// A feature whose reach meets none of the features before it is
+		// verified on a clone of the material, beside the verifier (up
+		// to a clone per core at a time), and its cells are copied back
+		// before any later feature that meets it is verified, or at the
+		// end (see bandedReach).
+		var reach []geom.Rect
+		var asides []*bandedAside
+		land := func(a *bandedAside) {
+			<-a.done
+			if a.err == nil {
+				sim.m.Restore(a.sim.m.Save(a.reach, 0))
+			}
+			record(a.fi, a.fv, a.err)
+		}
 		for l := range v.in {
 			if v.err != nil {
 				continue
 			}
-			fv, err := sim.verify(ctx, l.fi, l.start, l.moves)
-			if err != nil {
-				v.err = err
+			box := bandedReach(job, l.fi, l.start, l.moves, sim.m.BandWidth())
+			alone := true
+			for _, r := range reach {
+				if rectsMeet(r, box) {
+					alone = false
+					break
+				}
+			}
+			reach = append(reach, box)
+			if alone && len(asides) < runtime.GOMAXPROCS(0) && l.fi+1 < len(job.Features) {
+				a := &bandedAside{fi: l.fi, reach: box, sim: sim.fork(), done: make(chan struct{})}
+				go func(l bandedLanded) {
+					defer close(a.done)
+					a.fv, a.err = a.sim.verify(ctx, l.fi, l.start, l.moves)
+				}(l)
+				asides = append(asides, a)
+				v.aside++
 				continue
 			}
-			v.moves[l.fi], v.extra[l.fi], v.worst[l.fi], v.slots[l.fi] = fv.moves, fv.extra, fv.worst, fv.slot
+			// The features aside that this one meets land first.
+			kept := asides[:0]
+			for _, a := range asides {
+				if rectsMeet(a.reach, box) {
+					land(a)
+				} else {
+					kept = append(kept, a)
+				}
+			}
+			asides = kept
+			fv, err := sim.verify(ctx, l.fi, l.start, l.moves)
+			record(l.fi, fv, err)
+		}
+		for _, a := range asides {
+			land(a)
 		}
 	}()
 	return v
+}
+
+// bandedAside is a feature verified on a clone of the verifier's
+// material while the verifier goes on with the next features.
+type bandedAside struct {
+	fi    int
+	reach geom.Rect
+	sim   *bandedSim
+	done  chan struct{}
+	fv    bandedVerified
+	err   error
+}
+
+// bandedReach returns the XY box within which the verification of
+// feature fi, whose moves start at start, reads or changes the material:
+// the moves that reach below the stock top (arcs by their whole circle)
+// grown by the tool radius, and the feature's region within the stock
+// (where its uncut area is measured and its extra passes run: they keep
+// to its tool-centre domain), both grown by the material's exact-distance
+// band (band, mm) and a margin of 0.5 mm. Moves above the stock (rapids
+// between features) touch no material.
+func bandedReach(job *Job, fi int, start geom.Point3, moves []geom.Move, band float64) geom.Rect {
+	grow := func(r geom.Rect, d float64) geom.Rect {
+		if r.Empty() {
+			return r
+		}
+		return geom.Rect{Min: r.Min.Sub(geom.Pt(d, d)), Max: r.Max.Add(geom.Pt(d, d))}
+	}
+	path := geom.EmptyRect()
+	top := job.Stock.Top
+	from := start
+	for _, mv := range moves {
+		if min(from.Z, mv.To.Z) < top+1e-6 {
+			path = path.Extend(from.XY()).Extend(mv.To.XY())
+			if mv.Arc {
+				path = path.Union(arcBounds(from.XY(), mv.To.XY(), mv.Center, mv.CW))
+			}
+		}
+		from = mv.To
+	}
+	r := grow(path, job.Tool.Radius()+band+0.5)
+	region := job.Features[fi].Region.Bounds()
+	if tgt, err := geom.Intersection(job.Features[fi].Region, job.Stock.Outline); err == nil {
+		region = tgt.Bounds()
+	}
+	r = r.Union(grow(region, band+0.5))
+	// Nothing outside the stock holds material.
+	sb := grow(job.Stock.Outline.Bounds(), band+0.5)
+	if r.Empty() {
+		return r
+	}
+	r.Min.X, r.Min.Y = max(r.Min.X, sb.Min.X), max(r.Min.Y, sb.Min.Y)
+	r.Max.X, r.Max.Y = min(r.Max.X, sb.Max.X), min(r.Max.Y, sb.Max.Y)
+	return r
+}
+
+// arcBounds returns the XY bounds of the arc from a to b about c (clockwise
+// when cw): its ends and the points where it crosses an axis through c.
+func arcBounds(a, b, c geom.Point, cw bool) geom.Rect {
+	r := geom.EmptyRect().Extend(a).Extend(b)
+	rad := a.Dist(c)
+	a0 := math.Atan2(a.Y-c.Y, a.X-c.X)
+	sw := geom.ArcSweep(a, b, c, cw)
+	for q := range 4 {
+		ang := float64(q) * math.Pi / 2
+		rel := ang - a0
+		if cw {
+			rel = -rel
+		}
+		if math.Mod(rel+4*math.Pi, 2*math.Pi) <= sw {
+			r = r.Extend(c.Add(geom.Pt(math.Cos(ang), math.Sin(ang)).Scale(rad)))
+		}
+	}
+	return r
+}
+
+// rectsMeet reports whether the boxes a and b overlap or touch.
+func rectsMeet(a, b geom.Rect) bool {
+	if a.Empty() || b.Empty() {
+		return false
+	}
+	return a.Min.X <= b.Max.X && b.Min.X <= a.Max.X && a.Min.Y <= b.Max.Y && b.Min.Y <= a.Max.Y
 }
 
 // add hands feature fi's moves, which start at start, to the verifier.

@@ -81,6 +81,15 @@ type bandedSim struct {
 	trailBudget int
 }
 
+// fork returns a bandedSim that simulates on a clone of s's material and
+// shares nothing with s that either changes.
+func (s *bandedSim) fork() *bandedSim {
+	f := *s
+	f.m = s.m.Clone()
+	f.domains = nil
+	return &f
+}
+
 func newBandedSim(job *Job) (*bandedSim, error) {
 	m, err := engage.NewMaterial(job.Stock.Outline, job.Stock.Top, engage.MaterialOptions{})
 	if err != nil {
