@@ -437,8 +437,8 @@ type bandedAside struct {
 
 // bandedReach returns the XY box within which the verification of
 // feature fi, whose moves start at start, reads or changes the material:
-// the moves that reach below the stock top (arcs by their whole circle)
-// grown by the tool radius, and the feature's region within the stock
+// the moves that reach below the stock top (arcs by their bounds,
+// arcBounds) grown by the tool radius, and the feature's region within the stock
 // (where its uncut area is measured and its extra passes run: they keep
 // to its tool-centre domain), both grown by the material's exact-distance
 // band (band, mm) and a margin of 0.5 mm. Moves above the stock (rapids
