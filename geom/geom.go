@@ -89,6 +89,26 @@ func (r Rect) Union(s Rect) Rect {
 	return r.Extend(s.Min).Extend(s.Max)
 }
 
+// Grow returns r with every side moved out by d (in when d < 0); an empty
+// r stays empty.
+func (r Rect) Grow(d float64) Rect {
+	if r.Empty() {
+		return r
+	}
+	return Rect{Point{r.Min.X - d, r.Min.Y - d}, Point{r.Max.X + d, r.Max.Y + d}}
+}
+
+// Intersect returns the part of r that lies in s (empty when none).
+func (r Rect) Intersect(s Rect) Rect {
+	return Rect{
+		Point{math.Max(r.Min.X, s.Min.X), math.Max(r.Min.Y, s.Min.Y)},
+		Point{math.Min(r.Max.X, s.Max.X), math.Min(r.Max.Y, s.Max.Y)},
+	}
+}
+
+// Overlaps reports whether r and s share a point, boundaries included.
+func (r Rect) Overlaps(s Rect) bool { return !r.Intersect(s).Empty() }
+
 // Width returns the extent of r along X (0 when empty).
 func (r Rect) Width() float64 { return math.Max(0, r.Max.X-r.Min.X) }
 

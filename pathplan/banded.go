@@ -388,7 +388,7 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 			box := bandedReach(job, l.fi, l.start, l.moves, sim.m.BandWidth())
 			alone := true
 			for _, r := range reach {
-				if rectsMeet(r, box) {
+				if r.Overlaps(box) {
 					alone = false
 					break
 				}
@@ -407,7 +407,7 @@ func startBandedVerifier(ctx context.Context, job *Job) *bandedVerifier {
 			// The features aside that this one meets land first.
 			kept := asides[:0]
 			for _, a := range asides {
-				if rectsMeet(a.reach, box) {
+				if a.reach.Overlaps(box) {
 					land(a)
 				} else {
 					kept = append(kept, a)
@@ -444,12 +444,6 @@ type bandedAside struct {
 // band (band, mm) and a margin of 0.5 mm. Moves above the stock (rapids
 // between features) touch no material.
 func bandedReach(job *Job, fi int, start geom.Point3, moves []geom.Move, band float64) geom.Rect {
-	grow := func(r geom.Rect, d float64) geom.Rect {
-		if r.Empty() {
-			return r
-		}
-		return geom.Rect{Min: r.Min.Sub(geom.Pt(d, d)), Max: r.Max.Add(geom.Pt(d, d))}
-	}
 	path := geom.EmptyRect()
 	top := job.Stock.Top
 	from := start
@@ -462,20 +456,13 @@ func bandedReach(job *Job, fi int, start geom.Point3, moves []geom.Move, band fl
 		}
 		from = mv.To
 	}
-	r := grow(path, job.Tool.Radius()+band+0.5)
 	region := job.Features[fi].Region.Bounds()
 	if tgt, err := geom.Intersection(job.Features[fi].Region, job.Stock.Outline); err == nil {
 		region = tgt.Bounds()
 	}
-	r = r.Union(grow(region, band+0.5))
+	r := path.Grow(job.Tool.Radius() + band + 0.5).Union(region.Grow(band + 0.5))
 	// Nothing outside the stock holds material.
-	sb := grow(job.Stock.Outline.Bounds(), band+0.5)
-	if r.Empty() {
-		return r
-	}
-	r.Min.X, r.Min.Y = max(r.Min.X, sb.Min.X), max(r.Min.Y, sb.Min.Y)
-	r.Max.X, r.Max.Y = min(r.Max.X, sb.Max.X), min(r.Max.Y, sb.Max.Y)
-	return r
+	return r.Intersect(job.Stock.Outline.Bounds().Grow(band + 0.5))
 }
 
 // arcBounds returns the XY bounds of the arc from a to b about c (clockwise
@@ -496,14 +483,6 @@ func arcBounds(a, b, c geom.Point, cw bool) geom.Rect {
 		}
 	}
 	return r
-}
-
-// rectsMeet reports whether the boxes a and b overlap or touch.
-func rectsMeet(a, b geom.Rect) bool {
-	if a.Empty() || b.Empty() {
-		return false
-	}
-	return a.Min.X <= b.Max.X && b.Min.X <= a.Max.X && a.Min.Y <= b.Max.Y && b.Min.Y <= a.Max.Y
 }
 
 // add hands feature fi's moves, which start at start, to the verifier.
@@ -689,8 +668,7 @@ func bandedAhead(ctx context.Context, b *builder, fp bandedFeatureParams, worker
 // domain, stays below a quarter of MaxRasterBytes.
 func bandedAheadFits(fp bandedFeatureParams, fi int) bool {
 	bb := fp.job.Features[fi].Region.Bounds()
-	g := 2 * fp.st.r
-	bb.Min, bb.Max = bb.Min.Sub(geom.Pt(g, g)), bb.Max.Add(geom.Pt(g, g))
+	bb = bb.Grow(2 * fp.st.r)
 	return bandedRasterBytes(bb, fp.st.h, fp.st.r+2*fp.st.h, 0) < MaxRasterBytes/4
 }
 
